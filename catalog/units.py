@@ -1,0 +1,536 @@
+"""Units at the edge: the program's one pint registry, text -> SI float, SI float -> text.
+
+Everything inside the program works on plain floats in the canonical unit of each
+dimension (Hz, F, ohm, W, ppm, degC, s, S, V, H, mm, ratio). This module is the only
+place that turns catalog or brief text into those floats and back.
+
+Parsing is cached per ``(text, dimension, default_unit)`` because catalog columns repeat
+the same few strings thousands of times.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from functools import lru_cache
+from typing import Final, Literal, get_args
+
+import pint
+
+__all__ = [
+    "DIMENSIONS",
+    "Dimension",
+    "UnitError",
+    "canonical_unit",
+    "format_quantity",
+    "parse_quantity",
+    "parse_temperature_range",
+    "ureg",
+]
+
+
+class UnitError(ValueError):
+    """A text is not a finite quantity of the expected kind."""
+
+
+Dimension = Literal[
+    "frequency",
+    "capacitance",
+    "resistance",
+    "power",
+    "ppm",
+    "temperature",
+    "time",
+    "transconductance",
+    "voltage",
+    "inductance",
+    "length",
+    "fraction",
+    "money",
+    "count",
+    "ppm_per_c2",
+]
+DIMENSIONS: Final[tuple[str, ...]] = get_args(Dimension)
+
+# The one registry (pint's own advice: one per program). Created once at import; nothing
+# else in this module keeps state apart from the parse cache.
+ureg: Final[pint.UnitRegistry] = pint.UnitRegistry(cache_folder=None)
+
+# Canonical unit (pint spelling) of each physical dimension handled through pint.
+_PINT_CANONICAL: Final[dict[str, str]] = {
+    "frequency": "hertz",
+    "capacitance": "farad",
+    "resistance": "ohm",
+    "power": "watt",
+    "time": "second",
+    "transconductance": "siemens",
+    "voltage": "volt",
+    "inductance": "henry",
+    "length": "millimeter",
+}
+
+# Shown to the user in error messages: what the column expects, with an example.
+_EXAMPLES: Final[dict[str, str]] = {
+    "frequency": "a frequency such as '32.768 kHz'",
+    "capacitance": "a capacitance such as '12 pF'",
+    "resistance": "a resistance such as '80 ohm'",
+    "power": "a power such as '100 uW'",
+    "ppm": "a frequency deviation such as '20 ppm'",
+    "temperature": "a temperature such as '-40 °C'",
+    "time": "a duration such as '10 year'",
+    "transconductance": "a transconductance such as '9 mA/V'",
+    "voltage": "a voltage such as '1.2 V'",
+    "inductance": "an inductance such as '10 mH'",
+    "length": "a length such as '3.2 mm'",
+    "fraction": "a fraction such as '5 %' or '0.05'",
+    "money": "a price such as '0.42'",
+    "count": "a count such as '1200'",
+    "ppm_per_c2": "a curvature such as '-0.034 ppm/°C²'",
+}
+
+# Base symbol that a bare SI prefix ("12 p", "32.768 k") attaches to, per dimension.
+_PREFIX_BASE: Final[dict[str, str]] = {
+    "frequency": "Hz",
+    "capacitance": "F",
+    "resistance": "ohm",
+    "power": "W",
+    "time": "s",
+    "transconductance": "S",
+    "voltage": "V",
+    "inductance": "H",
+}
+_PREFIXES: Final[dict[str, float]] = {
+    "f": 1e-15,
+    "p": 1e-12,
+    "n": 1e-9,
+    "u": 1e-6,
+    "m": 1e-3,
+    "k": 1e3,
+    "K": 1e3,
+    "M": 1e6,
+    "G": 1e9,
+}
+
+# Maximum text length worth parsing; a longer "value" is garbage, not a quantity.
+_MAX_TEXT: Final[int] = 200
+
+_NUMBER = r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?"
+_NUMBER_THEN_UNIT: Final[re.Pattern[str]] = re.compile(rf"^({_NUMBER})\s*(.*)$")
+# Resistor code as printed on parts lists: "80R", "4R7" (4.7 ohm), "4k7", "1M5".
+_RKM: Final[re.Pattern[str]] = re.compile(r"^(\d+)([RkKM])(\d*)$")
+_THOUSANDS: Final[re.Pattern[str]] = re.compile(r"^[+-]?\d{1,3}(?:,\d{3})+(?:\.\d+)?$")
+_DECIMAL_COMMA: Final[re.Pattern[str]] = re.compile(r"(?<=\d),(?=\d)")
+# Words and signs around a value that say "limit" or "typical" but not how much.
+_DECORATION_WORDS: Final[re.Pattern[str]] = re.compile(
+    r"\b(?:max|maximum|min|minimum|typ|typical|nom|nominal|approx|ca|abs|absolute)\b\.?",
+    re.IGNORECASE,
+)
+_LEADING_SIGNS: Final[re.Pattern[str]] = re.compile(r"^(?:±|\+/-|\+-|\+/−|<=|>=|≤|≥|<|>|~|≈)\s*")
+
+# Spellings that pint does not know or reads differently (pint's "C" is coulomb).
+_TEMPERATURE_UNITS: Final[dict[str, str]] = {
+    "": "degC",
+    "°c": "degC",
+    "ºc": "degC",
+    "degc": "degC",
+    "deg c": "degC",
+    "c": "degC",
+    "celsius": "degC",
+    "deg": "degC",
+    "°": "degC",
+    "k": "kelvin",
+    "kelvin": "kelvin",
+    "°f": "degF",
+    "ºf": "degF",
+    "degf": "degF",
+    "f": "degF",
+    "fahrenheit": "degF",
+}
+_PPM_FACTORS: Final[dict[str, float]] = {
+    "": 1.0,
+    "ppm": 1.0,
+    "ppb": 1e-3,
+    "%": 1e4,
+    "percent": 1e4,
+    "ppt": 1e-6,
+}
+_FRACTION_FACTORS: Final[dict[str, float]] = {
+    "": 1.0,
+    "%": 1e-2,
+    "percent": 1e-2,
+    "ppm": 1e-6,
+    "ppb": 1e-9,
+}
+_CURRENCY: Final[re.Pattern[str]] = re.compile(
+    r"^(?:[$€£¥]|usd|eur|gbp|chf|jpy|cny)\s*|"
+    r"\s*(?:[$€£¥]|usd|eur|gbp|chf|jpy|cny)$",
+    re.IGNORECASE,
+)
+
+
+def canonical_unit(dimension: Dimension) -> str:
+    """Return the canonical unit symbol (as shown to users) of ``dimension``."""
+    return {
+        "frequency": "Hz",
+        "capacitance": "F",
+        "resistance": "Ω",
+        "power": "W",
+        "ppm": "ppm",
+        "temperature": "°C",
+        "time": "s",
+        "transconductance": "A/V",
+        "voltage": "V",
+        "inductance": "H",
+        "length": "mm",
+        "fraction": "",
+        "money": "",
+        "count": "",
+        "ppm_per_c2": "ppm/°C²",
+    }[dimension]
+
+
+def parse_quantity(
+    text: str | float | int,
+    dimension: Dimension,
+    *,
+    default_unit: str | None = None,
+) -> float:
+    """Parse one catalog or brief value into the canonical unit of ``dimension``.
+
+    Parameters
+    ----------
+    text : str, float or int
+        The raw value, e.g. ``"±20 ppm"``, ``"12,5 pF"``, ``"max. 80 Ω"``, ``"-40 °C"``.
+    dimension : Dimension
+        What the value must be. Canonical units: frequency [Hz], capacitance [F],
+        resistance [ohm], power [W], ppm [ppm], temperature [degC], time [s],
+        transconductance [S], voltage [V], inductance [H], length [mm], fraction [1],
+        money and count [bare number], ppm_per_c2 [ppm/degC²].
+    default_unit : str, optional
+        Unit for a bare number (e.g. ``"pF"`` taken from a column header); without it a
+        bare number is read in the canonical unit.
+
+    Returns
+    -------
+    float
+        A finite magnitude in the canonical unit.
+
+    Raises
+    ------
+    UnitError
+        Anything that is not a finite number of the right dimension. Nothing else is
+        raised.
+    """
+    if dimension not in DIMENSIONS:
+        raise UnitError(f"unknown dimension {dimension!r}")
+    if isinstance(text, bool):
+        raise UnitError(f"expected {_EXAMPLES[dimension]}, got {text!r}")
+    if isinstance(text, int | float):
+        if not math.isfinite(float(text)):
+            raise UnitError(f"expected {_EXAMPLES[dimension]}, got '{text}'")
+        text = repr(float(text)) if isinstance(text, float) else str(text)
+    if not isinstance(text, str):
+        raise UnitError(f"expected {_EXAMPLES[dimension]}, got {type(text).__name__}")
+    value, message = _parse_cached(text, dimension, default_unit)
+    if message is not None:
+        raise UnitError(message)
+    return value
+
+
+def parse_temperature_range(text: str) -> tuple[float, float]:
+    """Parse a rated temperature range into ``(min, max)`` in degC.
+
+    Accepts "-40 to 85 °C", "-40 °C to +85 °C", "-40~+85", "-40…85 °C", "-40/+85",
+    "-40 - 85 °C" and "[-40, 85]". A unit given only once (at the end) applies to both
+    ends. Raises UnitError otherwise, or when min >= max.
+    """
+    if not isinstance(text, str):
+        raise UnitError(f"expected a temperature range such as '-40 to 85 °C', got {text!r}")
+    low, high, message = _parse_range_cached(text)
+    if message is not None:
+        raise UnitError(message)
+    return low, high
+
+
+def format_quantity(value: float, dimension: Dimension, *, digits: int = 4) -> str:
+    """Format an SI value as short text with an engineering prefix.
+
+    ``digits`` is the most decimals shown after scaling; trailing zeros are dropped, so
+    32768 Hz -> "32.768 kHz", 12e-12 F -> "12 pF", 0.009 S -> "9 mA/V". NaN -> "—".
+    """
+    try:
+        number = float(value)
+    except (TypeError, ValueError):
+        return str(value)
+    if math.isnan(number):
+        return "—"
+    if math.isinf(number):
+        return "∞" if number > 0 else "-∞"
+    if dimension == "temperature":
+        return f"{_trim(number, digits)} °C"
+    if dimension == "ppm":
+        return f"{_trim(number, digits)} ppm"
+    if dimension == "ppm_per_c2":
+        return f"{_trim(number, digits)} ppm/°C²"
+    if dimension == "fraction":
+        return f"{_trim(number * 100.0, digits)} %"
+    if dimension == "length":
+        return f"{_trim(number, digits)} mm"
+    if dimension in ("money", "count"):
+        return _trim(number, digits)
+    if dimension == "time" and abs(number) >= 86400.0:
+        days = number / 86400.0
+        if abs(days) >= 365.0:
+            return f"{_trim(days / 365.25, digits)} year"
+        return f"{_trim(days, digits)} day"
+    symbol = {
+        "frequency": "Hz",
+        "capacitance": "F",
+        "resistance": "Ω",
+        "power": "W",
+        "time": "s",
+        "transconductance": "A/V",
+        "voltage": "V",
+        "inductance": "H",
+    }.get(dimension, "")
+    return _engineering(number, symbol, digits)
+
+
+# --- internals -------------------------------------------------------------------------
+
+
+def _trim(number: float, digits: int) -> str:
+    text = f"{number:.{max(digits, 0)}f}"
+    if "." in text:
+        text = text.rstrip("0").rstrip(".")
+    return "0" if text in ("-0", "") else text
+
+
+def _engineering(number: float, symbol: str, digits: int) -> str:
+    if number == 0.0:
+        return f"0 {symbol}".rstrip()
+    prefixes = {-15: "f", -12: "p", -9: "n", -6: "µ", -3: "m", 0: "", 3: "k", 6: "M", 9: "G"}
+    exponent = int(math.floor(math.log10(abs(number)) / 3.0) * 3)
+    exponent = min(max(exponent, -15), 9)
+    mantissa = number / 10.0**exponent
+    # Rounding can carry 999.99 up to 1000: move to the next prefix.
+    if abs(float(_trim(mantissa, digits))) >= 1000.0 and exponent < 9:
+        exponent += 3
+        mantissa = number / 10.0**exponent
+    return f"{_trim(mantissa, digits)} {prefixes[exponent]}{symbol}"
+
+
+def _expected(dimension: str, raw: str) -> str:
+    shown = raw if len(raw) <= 60 else raw[:57] + "..."
+    return f"expected {_EXAMPLES[dimension]}, got '{shown}'"
+
+
+def _strip_decorations(text: str) -> str:
+    """Remove limit words, ± signs and spacing that say nothing about the amount."""
+    cleaned = (
+        text.replace("\u00a0", " ")
+        .replace("\u2009", " ")
+        .replace("\u202f", " ")
+        .replace("\u2212", "-")  # typographic minus
+        .replace("µ", "u")
+        .replace("μ", "u")
+        .replace("\u03a9", "ohm")  # Greek capital omega
+        .replace("\u2126", "ohm")  # the separate OHM SIGN code point
+        .replace("²", "^2")
+        .strip()
+    )
+    cleaned = _DECORATION_WORDS.sub(" ", cleaned).strip(" :=")
+    previous = None
+    while previous != cleaned:
+        previous = cleaned
+        cleaned = _LEADING_SIGNS.sub("", cleaned).strip()
+    return " ".join(cleaned.split())
+
+
+def _normalise_number(text: str, dimension: str) -> str:
+    """Turn decimal commas into points; keep thousands separators for counts and prices."""
+    if _THOUSANDS.match(text.split(" ")[0]) and dimension in ("count", "money"):
+        head, _, tail = text.partition(" ")
+        return (head.replace(",", "") + " " + tail).strip()
+    if text.count(",") == 1:
+        return _DECIMAL_COMMA.sub(".", text)
+    return text
+
+
+@lru_cache(maxsize=65536)
+def _parse_cached(text: str, dimension: str, default_unit: str | None) -> tuple[float, str | None]:
+    """Parse or explain; returns ``(value, None)`` or ``(nan, message)`` (cacheable)."""
+    try:
+        return _parse_uncached(text, dimension, default_unit), None
+    except UnitError as error:
+        return math.nan, str(error)
+    except Exception:  # pint and re may raise many types on hostile text
+        return math.nan, _expected(dimension, text)
+
+
+def _parse_uncached(text: str, dimension: str, default_unit: str | None) -> float:
+    if len(text) > _MAX_TEXT:
+        raise UnitError(_expected(dimension, text))
+    cleaned = _strip_decorations(text)
+    if dimension == "money":
+        cleaned = _CURRENCY.sub("", cleaned).strip()
+    cleaned = _normalise_number(cleaned, dimension)
+    if dimension == "resistance":
+        rkm = _RKM.match(cleaned)
+        if rkm:
+            whole, letter, fraction = rkm.groups()
+            scale = {"R": 1.0, "k": 1e3, "K": 1e3, "M": 1e6}[letter]
+            return _finite(float(f"{whole}.{fraction or '0'}") * scale, dimension, text)
+    match = _NUMBER_THEN_UNIT.match(cleaned)
+    if match is None:
+        raise UnitError(_expected(dimension, text))
+    number = float(match.group(1))
+    unit = match.group(2).strip()
+    if not unit and default_unit:
+        unit = _strip_decorations(default_unit)
+    value = _convert(number, unit, dimension, text)
+    return _finite(value, dimension, text)
+
+
+def _finite(value: float, dimension: str, raw: str) -> float:
+    if not math.isfinite(value):
+        raise UnitError(_expected(dimension, raw))
+    # Unit scaling leaves binary noise (100 uW -> 9.999999999999999e-05); 15 significant
+    # digits is below any catalog's precision and gives the value the user wrote.
+    return float(f"{value:.15g}")
+
+
+def _convert(number: float, unit: str, dimension: str, raw: str) -> float:
+    """Convert ``number`` given in ``unit`` to the canonical unit of ``dimension``."""
+    key = unit.lower().replace(" ", "")
+    if dimension == "temperature":
+        name = _TEMPERATURE_UNITS.get(unit.lower().strip()) or _TEMPERATURE_UNITS.get(key)
+        if name is None:
+            raise UnitError(_expected(dimension, raw))
+        # Offset units: build the quantity directly (multiplying would be ambiguous).
+        return float(ureg.Quantity(number, name).to("degC").magnitude)
+    if dimension == "ppm":
+        for suffix in ("/yr", "/year", "/y", "/a", "peryear", "firstyear", "/1styear", "/1yr"):
+            key = key.removesuffix(suffix)
+        if key not in _PPM_FACTORS:
+            raise UnitError(_expected(dimension, raw))
+        return number * _PPM_FACTORS[key]
+    if dimension == "fraction":
+        if key not in _FRACTION_FACTORS:
+            raise UnitError(_expected(dimension, raw))
+        return number * _FRACTION_FACTORS[key]
+    if dimension == "ppm_per_c2":
+        compact = key.replace("°", "").replace("deg", "").replace("**", "^")
+        allowed = ("", "ppm/c^2", "ppm/c2", "ppm/k^2", "ppm/k2", "ppm/(c^2)", "ppm/c/c")
+        if compact not in allowed:
+            raise UnitError(_expected(dimension, raw))
+        return number
+    if dimension in ("money", "count"):
+        if key not in ("", "pcs", "pc", "pieces", "units", "ea"):
+            raise UnitError(_expected(dimension, raw))
+        return number
+    return _convert_physical(number, unit, dimension, raw)
+
+
+def _convert_physical(number: float, unit: str, dimension: str, raw: str) -> float:
+    canonical = _PINT_CANONICAL[dimension]
+    if not unit:
+        return number
+    if unit in _PREFIXES and dimension in _PREFIX_BASE:
+        # "12 p" in a capacitance column: the prefix alone, base unit implied.
+        return _to_canonical(
+            number * _PREFIXES[unit], _PREFIX_BASE[dimension], canonical, raw, dimension
+        )
+    spelled = _spell_for_pint(unit, dimension)
+    if not re.fullmatch(r"[A-Za-z0-9_/*^. ()]+", spelled):
+        raise UnitError(_expected(dimension, raw))
+    return _to_canonical(number, spelled, canonical, raw, dimension)
+
+
+def _spell_for_pint(unit: str, dimension: str) -> str:
+    """Map trade spellings to pint's: 'R'/'Ohm' -> ohm, 'mA/V' stays, 'yr' -> year."""
+    compact = unit.replace(" ", "")
+    if dimension == "resistance":
+        lowered = compact.lower()
+        for prefix in ("", "m", "k", "M"):
+            if compact in (f"{prefix}R", f"{prefix}ohms", f"{prefix}Ohm", f"{prefix}Ohms"):
+                return f"{prefix}ohm"
+        if lowered in ("ohm", "ohms", "r"):
+            return "ohm"
+        if lowered in ("kohm", "kohms"):
+            return "kohm"
+        if compact in ("Mohms", "MOhm", "MOhms", "Meg", "meg"):
+            return "Mohm"
+    if dimension == "time":
+        return {
+            "yr": "year",
+            "yrs": "year",
+            "y": "year",
+            "a": "year",
+            "d": "day",
+            "hr": "hour",
+            "hrs": "hour",
+            "h": "hour",
+            "years": "year",
+            "days": "day",
+            "hours": "hour",
+            "min": "minute",
+            "months": "month",
+        }.get(compact.lower(), compact)
+    if dimension == "transconductance":
+        return compact.replace("mho", "S").replace("µ", "u")
+    if dimension == "frequency":
+        lowered = compact.lower()
+        return {"hz": "Hz", "khz": "kHz", "mhz": "MHz", "ghz": "GHz"}.get(lowered, compact)
+    if dimension == "length" and compact.lower() in ("mil", "mils"):
+        return "thou"
+    return compact
+
+
+def _to_canonical(number: float, unit: str, canonical: str, raw: str, dimension: str) -> float:
+    try:
+        quantity = ureg.Quantity(number, unit).to(canonical)
+    except Exception as error:  # undefined unit, wrong dimension, syntax: all "not this"
+        raise UnitError(_expected(dimension, raw)) from error
+    return float(quantity.magnitude)
+
+
+_RANGE_SEPARATORS: Final[re.Pattern[str]] = re.compile(
+    r"\s*(?:\bto\b|\.\.\.|\.\.|…|~|/|–|—|,|;|\s-\s|(?<=[\d°CcFfK])-(?=[+-]?\s*\d))\s*",
+    re.IGNORECASE,
+)
+
+
+@lru_cache(maxsize=4096)
+def _parse_range_cached(text: str) -> tuple[float, float, str | None]:
+    message = f"expected a temperature range such as '-40 to 85 °C', got '{text[:60]}'"
+    try:
+        low, high = _parse_range_uncached(text)
+    except Exception:
+        return math.nan, math.nan, message
+    if not low < high:
+        return (
+            low,
+            high,
+            (f"temperature range '{text[:60]}' has its minimum at or above its maximum"),
+        )
+    return low, high, None
+
+
+def _parse_range_uncached(text: str) -> tuple[float, float]:
+    if len(text) > _MAX_TEXT:
+        raise UnitError("too long")
+    cleaned = text.strip().strip("[]()").replace("\u2212", "-").strip()
+    parts = [part for part in _RANGE_SEPARATORS.split(cleaned, maxsplit=1) if part.strip()]
+    if len(parts) != 2:
+        raise UnitError("not a range")
+    low_text, high_text = (part.strip() for part in parts)
+    # A unit written once at the end ("-40 to 85 °F") applies to both ends.
+    high_match = _NUMBER_THEN_UNIT.match(_strip_decorations(high_text))
+    unit = high_match.group(2).strip() if high_match else ""
+    low_match = _NUMBER_THEN_UNIT.match(_strip_decorations(low_text))
+    if low_match is not None and not low_match.group(2).strip() and unit:
+        low_text = f"{low_match.group(1)} {unit}"
+    low = parse_quantity(low_text, "temperature")
+    high = parse_quantity(high_text, "temperature")
+    return low, high
