@@ -1,0 +1,357 @@
+"""Small-signal Pierce oscillator: load capacitance, negative resistance, transconductance.
+
+Network (Vittoz, Degrauwe & Bitz, "High-performance crystal oscillator circuits: theory and
+application", IEEE JSSC 23(3), 1988; Vittoz, "Low-Power Crystal and MEMS Oscillators",
+Springer 2010, ch. 3–4): node 1 is the amplifier input (gate), node 2 its output (drain).
+Y1 = G1 + jωCg from node 1 to ground, Y2 = G2 + jωCd from node 2 to ground,
+Y3 = G3 + jωC3 between the nodes (C3 = C0 + stray across the crystal; G3 = 1/R_bias),
+and a transconductance gm draws gm·V1 out of node 2. The motional arm of the crystal sees
+the impedance Zc between nodes 1 and 2.
+
+All inputs are SI (rad/s, S, F, ohm); every function accepts floats or numpy arrays and
+broadcasts.
+"""
+
+from __future__ import annotations
+
+from typing import NamedTuple
+
+import numpy as np
+
+from picker.physics._arrays import (
+    ArrayLike,
+    BoolArray,
+    ComplexArray,
+    FloatArray,
+    as_float,
+    to_bool,
+    to_complex,
+    to_float,
+)
+
+
+def board_load_capacitance(cg: ArrayLike, cd: ArrayLike, stray: ArrayLike) -> FloatArray:
+    """Load capacitance the Pierce circuit presents to the crystal.
+
+    Parameters
+    ----------
+    cg : total capacitance from the gate node to ground (external cap + pin) [F]
+    cd : total capacitance from the drain node to ground (external cap + pin) [F]
+    stray : stray capacitance across the crystal (traces, pads) [F]
+
+    Returns
+    -------
+    cl : load capacitance [F]
+
+    Notes
+    -----
+    CL = Cg·Cd/(Cg + Cd) + C_stray — the two caps in series through ground, in parallel
+    with the stray (IEC 60122-1 load-capacitance definition applied to the Pierce network).
+    """
+    cg_a, cd_a = as_float(cg), as_float(cd)
+    return to_float(cg_a * cd_a / (cg_a + cd_a) + as_float(stray))
+
+
+def pierce_impedance(
+    omega: ArrayLike,
+    gm: ArrayLike,
+    cg: ArrayLike,
+    cd: ArrayLike,
+    c3: ArrayLike,
+    g1: ArrayLike = 0.0,
+    g2: ArrayLike = 0.0,
+    g3: ArrayLike = 0.0,
+) -> ComplexArray:
+    """Impedance the oscillator circuit presents to the crystal's motional arm.
+
+    Parameters
+    ----------
+    omega : angular frequency [rad/s]
+    gm : amplifier transconductance [S]
+    cg : gate-node capacitance to ground [F]
+    cd : drain-node capacitance to ground [F]
+    c3 : capacitance across the crystal, C0 + stray [F]
+    g1 : conductance gate to ground [S] (usually 0)
+    g2 : amplifier output conductance [S]
+    g3 : conductance across the crystal, 1/R_bias [S]
+
+    Returns
+    -------
+    zc : impedance [ohm], complex; Re(zc) < 0 means the circuit can feed energy to the
+        crystal
+
+    Notes
+    -----
+    Zc = (gm + Y1 + Y2) / (Y1·Y2 + Y3·(Y1 + Y2 + gm)), Yi = Gi + jωCi (Vittoz et al.,
+    IEEE JSSC 1988, eq. 4 form; Vittoz 2010, ch. 3).
+    """
+    w = as_float(omega)
+    y1 = as_float(g1) + 1j * w * as_float(cg)
+    y2 = as_float(g2) + 1j * w * as_float(cd)
+    y3 = as_float(g3) + 1j * w * as_float(c3)
+    gm_a = as_float(gm)
+    z = (gm_a + y1 + y2) / (y1 * y2 + y3 * (y1 + y2 + gm_a))
+    return to_complex(z)
+
+
+def negative_resistance(
+    omega: ArrayLike,
+    gm: ArrayLike,
+    cg: ArrayLike,
+    cd: ArrayLike,
+    c3: ArrayLike,
+    g1: ArrayLike = 0.0,
+    g2: ArrayLike = 0.0,
+    g3: ArrayLike = 0.0,
+) -> FloatArray:
+    """Real part of the circuit impedance seen by the motional arm.
+
+    Parameters
+    ----------
+    omega, gm, cg, cd, c3, g1, g2, g3 : as in :func:`pierce_impedance`
+
+    Returns
+    -------
+    rneg : Re(Zc) [ohm]; negative when the circuit can sustain oscillation
+
+    Notes
+    -----
+    Lossless: Re(Zc) = −gm·Cg·Cd / ((gm·C3)² + ω²·(Cg·Cd + C3·(Cg + Cd))²)
+    (Vittoz et al., IEEE JSSC 1988).
+    """
+    return to_float(np.asarray(np.real(pierce_impedance(omega, gm, cg, cd, c3, g1, g2, g3))))
+
+
+class _RealPartCoefficients(NamedTuple):
+    """Re(Zc) = (a2·gm² + a1·gm + a0) / (q2·gm² + q1·gm + q0), exact for real gm."""
+
+    a2: FloatArray
+    a1: FloatArray
+    a0: FloatArray
+    q2: FloatArray
+    q1: FloatArray
+    q0: FloatArray
+
+
+def _real_part_coefficients(
+    omega: ArrayLike,
+    cg: ArrayLike,
+    cd: ArrayLike,
+    c3: ArrayLike,
+    g1: ArrayLike,
+    g2: ArrayLike,
+    g3: ArrayLike,
+) -> _RealPartCoefficients:
+    # Zc = N/D with N = gm + n0 and D = Y3·gm + d0, both linear in gm, so
+    # Re(Zc) = Re(N·conj(D)) / |D|² is a ratio of two quadratics in (real) gm.
+    w = as_float(omega)
+    y1 = as_float(g1) + 1j * w * as_float(cg)
+    y2 = as_float(g2) + 1j * w * as_float(cd)
+    y3 = as_float(g3) + 1j * w * as_float(c3)
+    n0 = y1 + y2
+    d0 = y1 * y2 + y3 * n0
+    a2 = np.real(np.conj(y3))
+    a1 = np.real(np.conj(d0) + n0 * np.conj(y3))
+    a0 = np.real(n0 * np.conj(d0))
+    q2 = np.abs(y3) ** 2
+    q1 = 2.0 * np.real(y3 * np.conj(d0))
+    q0 = np.abs(d0) ** 2
+    a2, a1, a0, q2, q1, q0 = np.broadcast_arrays(a2, a1, a0, q2, q1, q0)
+    return _RealPartCoefficients(a2, a1, a0, q2, q1, q0)
+
+
+def critical_transconductance(
+    omega: ArrayLike,
+    r1: ArrayLike,
+    cg: ArrayLike,
+    cd: ArrayLike,
+    c3: ArrayLike,
+    g1: ArrayLike = 0.0,
+    g2: ArrayLike = 0.0,
+    g3: ArrayLike = 0.0,
+) -> FloatArray:
+    """Smallest transconductance at which the circuit just cancels the crystal's R1.
+
+    Parameters
+    ----------
+    omega : angular frequency [rad/s]
+    r1 : motional resistance [ohm]
+    cg, cd, c3, g1, g2, g3 : as in :func:`pierce_impedance` [F, F, F, S, S, S]
+
+    Returns
+    -------
+    gm_crit : critical transconductance [S]; ``inf`` where no gm makes −Re(Zc) reach R1
+        (R1 above the circuit's |Rneg|max); 0 where the passive network alone is already
+        negative (not physical, kept for completeness)
+
+    Notes
+    -----
+    Re(Zc) = −R1 becomes, after clearing |D|², the exact quadratic
+    (a2 + R1·q2)·gm² + (a1 + R1·q1)·gm + (a0 + R1·q0) = 0; the rising-branch root is the
+    smaller one, taken in the stable form gm = 2c/(−b + √(b² − 4ac)).
+    Lossless this is gm_crit = 2·R1·ω²·K² / (Cg·Cd + √((Cg·Cd)² − 4·R1²·ω²·C3²·K²)),
+    K = Cg·Cd + C3·(Cg + Cd), which tends to ω²·R1·Cg·Cd·(1 + C3/Cg + C3/Cd)² when R1 is
+    far below |Rneg|max (Vittoz et al., IEEE JSSC 1988; Vittoz 2010, ch. 3).
+    """
+    k = _real_part_coefficients(omega, cg, cd, c3, g1, g2, g3)
+    r1_a = as_float(r1)
+    a = k.a2 + r1_a * k.q2
+    b = k.a1 + r1_a * k.q1
+    c = k.a0 + r1_a * k.q0
+    a, b, c = np.broadcast_arrays(a, b, c)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        disc = b * b - 4.0 * a * c
+        root = 2.0 * c / (-b + np.sqrt(disc))
+    result = np.where((disc >= 0.0) & (b < 0.0) & (c > 0.0), root, np.inf)
+    result = np.where(c <= 0.0, 0.0, result)
+    return to_float(np.asarray(result, dtype=np.float64))
+
+
+def optimum_transconductance(
+    omega: ArrayLike,
+    cg: ArrayLike,
+    cd: ArrayLike,
+    c3: ArrayLike,
+    g1: ArrayLike = 0.0,
+    g2: ArrayLike = 0.0,
+    g3: ArrayLike = 0.0,
+) -> FloatArray:
+    """Transconductance at which the negative resistance is largest in magnitude.
+
+    Parameters
+    ----------
+    omega, cg, cd, c3, g1, g2, g3 : as in :func:`pierce_impedance`
+
+    Returns
+    -------
+    gm_opt : optimum transconductance [S]; NaN where Re(Zc) has no negative minimum
+
+    Notes
+    -----
+    Lossless: gm_opt = ω·(Cg·Cd + C3·(Cg + Cd)) / C3 (Vittoz et al., IEEE JSSC 1988).
+    With losses, d Re(Zc)/d gm = 0 for Re(Zc) = P/Q (quadratics, see
+    :func:`critical_transconductance`) is the quadratic
+    (a2·q1 − a1·q2)·gm² + 2·(a2·q0 − a0·q2)·gm + (a1·q0 − a0·q1) = 0; the root with the
+    most negative Re(Zc) is returned.
+    """
+    return _optimum(omega, cg, cd, c3, g1, g2, g3)[0]
+
+
+def max_negative_resistance(
+    omega: ArrayLike,
+    cg: ArrayLike,
+    cd: ArrayLike,
+    c3: ArrayLike,
+    g1: ArrayLike = 0.0,
+    g2: ArrayLike = 0.0,
+    g3: ArrayLike = 0.0,
+) -> FloatArray:
+    """Largest |Re(Zc)| the network can reach with any transconductance.
+
+    Parameters
+    ----------
+    omega, cg, cd, c3, g1, g2, g3 : as in :func:`pierce_impedance`
+
+    Returns
+    -------
+    rneg_max : |Rneg|max [ohm], positive; 0 where the network never goes negative
+
+    Notes
+    -----
+    Lossless: |Rneg|max = Cg·Cd / (2·ω·C3·(Cg·Cd + C3·(Cg + Cd))), reached at gm_opt
+    (Vittoz et al., IEEE JSSC 1988). With losses, exact: −Re(Zc) at the stationary point
+    given by :func:`optimum_transconductance`. A crystal with R1 above this value cannot
+    start with any amplifier in this network.
+    """
+    return _optimum(omega, cg, cd, c3, g1, g2, g3)[1]
+
+
+def _optimum(
+    omega: ArrayLike,
+    cg: ArrayLike,
+    cd: ArrayLike,
+    c3: ArrayLike,
+    g1: ArrayLike,
+    g2: ArrayLike,
+    g3: ArrayLike,
+) -> tuple[FloatArray, FloatArray]:
+    k = _real_part_coefficients(omega, cg, cd, c3, g1, g2, g3)
+    a = k.a2 * k.q1 - k.a1 * k.q2
+    b = 2.0 * (k.a2 * k.q0 - k.a0 * k.q2)
+    c = k.a1 * k.q0 - k.a0 * k.q1
+    with np.errstate(invalid="ignore", divide="ignore"):
+        sq = np.sqrt(b * b - 4.0 * a * c)
+        # both roots in stable forms; a may vanish (lossless, q1 = a2 = 0 gives b = 0 too)
+        root_1 = np.where(b >= 0.0, (-b - sq) / (2.0 * a), 2.0 * c / (-b + sq))
+        root_2 = np.where(b >= 0.0, 2.0 * c / (-b - sq), (-b + sq) / (2.0 * a))
+
+        def real_part(gm: FloatArray) -> FloatArray:
+            value = (k.a2 * gm**2 + k.a1 * gm + k.a0) / (k.q2 * gm**2 + k.q1 * gm + k.q0)
+            usable = np.isfinite(gm) & (gm > 0.0) & np.isfinite(value)
+            return np.where(usable, value, np.inf)
+
+        re_1 = real_part(root_1)
+        re_2 = real_part(root_2)
+    pick_1 = re_1 <= re_2
+    gm_opt = np.where(pick_1, root_1, root_2)
+    re_min = np.where(pick_1, re_1, re_2)
+    negative = np.isfinite(re_min) & (re_min < 0.0)
+    gm_opt = np.where(negative, gm_opt, np.nan)
+    rneg_max = np.where(negative, -re_min, 0.0)
+    return to_float(np.asarray(gm_opt)), to_float(np.asarray(rneg_max))
+
+
+def can_start(r1: ArrayLike, rneg_max: ArrayLike) -> BoolArray:
+    """Whether any amplifier in this network could start the crystal.
+
+    Parameters
+    ----------
+    r1 : motional resistance [ohm]
+    rneg_max : |Rneg|max of the network [ohm], from :func:`max_negative_resistance`
+
+    Returns
+    -------
+    ok : True where R1 < |Rneg|max (Vittoz et al., IEEE JSSC 1988)
+    """
+    return to_bool(as_float(r1) < as_float(rneg_max))
+
+
+def negative_resistance_margin(rneg: ArrayLike, r1: ArrayLike) -> FloatArray:
+    """Negative-resistance margin M = |Rneg| / R1.
+
+    Parameters
+    ----------
+    rneg : Re(Zc) at the operating gm [ohm] (negative when it can oscillate)
+    r1 : motional resistance [ohm]
+
+    Returns
+    -------
+    margin : [1]; 0 where Re(Zc) ≥ 0
+
+    Notes
+    -----
+    Common practice in application literature asks for M ≥ 5 (≥ 10 automotive); the
+    threshold is a brief setting, not part of the physics.
+    """
+    rneg_a = as_float(rneg)
+    return to_float(np.asarray(np.where(rneg_a < 0.0, -rneg_a, 0.0) / as_float(r1)))
+
+
+def gain_margin(gm: ArrayLike, gm_crit: ArrayLike) -> FloatArray:
+    """Gain ratio gm / gm_crit.
+
+    Parameters
+    ----------
+    gm : amplifier transconductance [S]
+    gm_crit : critical transconductance [S]
+
+    Returns
+    -------
+    ratio : [1]; 0 where gm_crit is infinite
+
+    Notes
+    -----
+    Differs from the negative-resistance margin once gm approaches gm_opt (Vittoz 2010,
+    ch. 3).
+    """
+    return to_float(np.asarray(as_float(gm) / as_float(gm_crit)))
