@@ -247,6 +247,14 @@ def measure(sizes: Sequence[int], *, repeats: int, sample: int, quick: bool) -> 
                 limit=0.050 if small <= 100_000 else None,
             )
         )
+        rows.append(
+            target_row(
+                "  of which after the debounce",
+                tui_small,
+                "keystroke_work_s",
+                note="re-rank start → repainted list (median)",
+            )
+        )
         rows.append(target_row(f"  peak RSS, TUI ({small:,})", tui_small, "peak_rss_mb", unit="MB"))
         tui_large = tui_small if large == small else run_probe("tui", csvs[large], cache, repeats=3)
         if large != small:
