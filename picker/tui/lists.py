@@ -1,0 +1,99 @@
+"""Row lists for ruled-out parts and alternates (Line API, visible rows only)."""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+
+import numpy as np
+
+from picker.tui.model import Alternate
+from picker.tui.rows import Cells, RowList
+
+Texts = Sequence[str] | np.ndarray
+
+FIT_LABELS = {
+    "drop_in": ("● drop-in   ", "rowlist--good"),
+    "drop_in_new_caps": ("◐ new caps  ", "rowlist--good"),
+    "review": ("△ review    ", "rowlist--warn"),
+    "incompatible": ("✘ no        ", "rowlist--bad"),
+}
+"""How closely an alternate drops in, as a symbol and words (readable without colour)."""
+
+
+def fit_cells(fit: str) -> tuple[str, str | None]:
+    return FIT_LABELS.get(fit, (f"{fit[:11]:<12}", None))
+
+
+class RuledOutView(RowList):
+    """Ruled-out parts: part number, package and the most fundamental reason."""
+
+    empty_text = "no part is ruled out (or none matches the filter)"
+
+    def __init__(self, *, id: str | None = None) -> None:
+        super().__init__(id=id)
+        self._mpn: Texts = ()
+        self._package: Texts = ()
+        self._reason: Texts = ()
+
+    def show(self, mpn: Texts, package: Texts, reason: Texts) -> None:
+        self._mpn, self._package, self._reason = mpn, package, reason
+        self.set_row_count(len(mpn))
+
+    def current_mpn(self) -> str | None:
+        return str(self._mpn[self.cursor]) if self.row_count else None
+
+    def _mpn_width(self, width: int) -> int:
+        return min(max(width // 3, 12), 24)
+
+    def header_cells(self, width: int) -> Cells:
+        w = self._mpn_width(width - 1)
+        return [(f" {'part number':<{w}} {'package':<8} first reason", None)]
+
+    def row_cells(self, index: int, width: int) -> Cells:
+        w = self._mpn_width(width)
+        mpn = str(self._mpn[index])
+        mpn = mpn if len(mpn) <= w else mpn[: w - 1] + "…"
+        return [
+            (f"{mpn:<{w}} ", None),
+            (f"{str(self._package[index])[:8]:<8} ", None),
+            ("✘ ", "rowlist--bad"),
+            (str(self._reason[index]), None),
+        ]
+
+
+class AlternatesView(RowList):
+    """Alternates for one reference part, closest first."""
+
+    empty_text = "type a part number above (or press a on a shortlist row)"
+
+    def __init__(self, *, id: str | None = None) -> None:
+        super().__init__(id=id)
+        self._rows: tuple[Alternate, ...] = ()
+
+    def show(self, rows: tuple[Alternate, ...]) -> None:
+        self._rows = rows
+        self.set_row_count(len(rows))
+
+    def current(self) -> Alternate | None:
+        return self._rows[self.cursor] if self._rows else None
+
+    def _mpn_width(self, width: int) -> int:
+        return min(max(width // 4, 12), 24)
+
+    def header_cells(self, width: int) -> Cells:
+        w = self._mpn_width(width - 1)
+        return [(f" {'drops in?':<12} {'part number':<{w}} {'package':<8} differences", None)]
+
+    def row_cells(self, index: int, width: int) -> Cells:
+        row = self._rows[index]
+        w = self._mpn_width(width)
+        label, style = fit_cells(row.fit)
+        mpn = row.mpn if len(row.mpn) <= w else row.mpn[: w - 1] + "…"
+        first = row.differences[0] if row.differences else "identical in every compared field"
+        more = f" (+{len(row.differences) - 1})" if len(row.differences) > 1 else ""
+        return [
+            (label, style),
+            (f" {mpn:<{w}} ", None),
+            (f"{row.package[:8]:<8} ", None),
+            (first + more, None),
+        ]
