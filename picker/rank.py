@@ -1,0 +1,443 @@
+"""Statuses, reasons, score and order for every part against one brief.
+
+The hard rules are evaluated for all parts at once and stored as a bitmask per part (one
+int64 column is cheap at a million rows); the reason sentences, which carry the part's own
+numbers, are written only for the rows somebody looks at (:meth:`Ranking.reasons`).
+
+Status
+    ``ruled_out`` when any hard rule fails; ``marginal`` when every rule passes but a figure
+    lies inside the brief's marginal band of its limit (the reason says which); else ``fit``.
+Score
+    A weighted mean of readable components, each 0..1 (see :data:`SCORE_COMPONENTS`), with the
+    brief's weights. Order: status, then score (high first), then part number, so equal parts
+    always come out in the same order.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from dataclasses import dataclass, field
+from functools import cached_property
+from typing import Any
+
+import numpy as np
+import pandas as pd
+
+from picker.analysis import analyze_parts
+from picker.brief import Brief
+
+STATUSES = ("fit", "marginal", "ruled_out")
+
+# Hard rules in order of how fundamental they are: the first failing one is the first reason.
+RULES: tuple[str, ...] = (
+    "frequency",
+    "never_starts",
+    "temperature_range",
+    "package",
+    "caps",
+    "margin",
+    "drive",
+    "budget",
+    "lifecycle",
+    "height",
+    "qualification",
+    "stock",
+)
+RULE_BIT = {name: 1 << i for i, name in enumerate(RULES)}
+
+# Marginal conditions (all rules pass but the part sits close to a limit).
+MARGINAL: tuple[str, ...] = ("margin", "outside_table", "budget", "drive")
+MARGINAL_BIT = {name: 1 << i for i, name in enumerate(MARGINAL)}
+
+#: Score components, each 0..1, paired with the Weights attribute that scales them.
+SCORE_COMPONENTS: tuple[str, ...] = (
+    "margin",
+    "headroom",
+    "drive",
+    "price",
+    "stock",
+    "lifecycle",
+)
+
+#: Margin that earns the full margin score, as a multiple of the required minimum.
+FULL_MARGIN_MULTIPLE = 4.0
+#: Stock that earns the full stock score (pieces); log scale below it.
+FULL_STOCK = 10_000.0
+LIFECYCLE_SCORE = {"active": 1.0, "nrnd": 0.3, "obsolete": 0.0}
+#: Lifecycle score when the catalog does not say.
+UNKNOWN_LIFECYCLE_SCORE = 0.5
+
+
+@dataclass(frozen=True)
+class Ranking:
+    """Every part's analysis with status, score and reasons, for one brief.
+
+    Attributes
+    ----------
+    analysis : the analysis frame (index = the part table's index), plus ``status``,
+        ``score``, ``score_<component>`` columns, ``fail_mask`` and ``marginal_mask``.
+    order : positions into ``analysis``, best first.
+    brief : the brief ranked against.
+    """
+
+    analysis: pd.DataFrame
+    order: np.ndarray
+    brief: Brief
+    counts: dict[str, int] = field(default_factory=dict)
+
+    @cached_property
+    def table(self) -> pd.DataFrame:
+        """The whole analysis ordered best first (built on first use: it copies every column)."""
+        return self.analysis.iloc[self.order]
+
+    def head(self, n: int, *, include_ruled_out: bool = False) -> pd.DataFrame:
+        """The best ``n`` rows (fit and marginal only unless ``include_ruled_out``)."""
+        positions = self.order if include_ruled_out else self.order[: self.shortlist_size]
+        return self.analysis.iloc[positions[:n]]
+
+    @property
+    def shortlist_size(self) -> int:
+        return self.counts.get("fit", 0) + self.counts.get("marginal", 0)
+
+    @property
+    def fits(self) -> pd.DataFrame:
+        """Fit and marginal parts, best first."""
+        return self.analysis.iloc[self.order[: self.shortlist_size]]
+
+    @property
+    def ruled_out(self) -> pd.DataFrame:
+        """Ruled-out parts, best first."""
+        return self.analysis.iloc[self.order[self.shortlist_size :]]
+
+    def row(self, mpn: str) -> pd.Series:
+        """The analysis row of one part number (KeyError when absent)."""
+        hits = np.flatnonzero((self.analysis["mpn"] == mpn).to_numpy(dtype=bool))
+        if hits.size == 0:
+            raise KeyError(mpn)
+        return self.analysis.iloc[int(hits[0])]
+
+    def reasons(self, row: pd.Series) -> list[str]:
+        """Reason sentences for one analysis row, the most fundamental first."""
+        return reasons_for_row(row, self.brief)
+
+
+def rank_parts(parts: pd.DataFrame, brief: Brief) -> Ranking:
+    """Analyse, judge and order every part of ``parts`` against ``brief``."""
+    return rank_analysis(analyze_parts(parts, brief), brief)
+
+
+def rank_analysis(analysis: pd.DataFrame, brief: Brief) -> Ranking:
+    """Judge and order an already computed analysis frame (see :func:`rank_parts`)."""
+    fail = failure_mask(analysis, brief)
+    near = np.where(fail != 0, 0, marginal_mask(analysis, brief))
+    status_code = np.where(fail != 0, 2, np.where(near != 0, 1, 0)).astype(np.int8)
+    components = score_components(analysis, brief)
+    weights = {name: float(getattr(brief.weights, name)) for name in SCORE_COMPONENTS}
+    total_weight = sum(weights.values()) or 1.0
+    score = sum(weights[name] * components[name] for name in SCORE_COMPONENTS) / total_weight
+    score = np.round(score, 12)
+    columns: dict[str, Any] = {
+        "status": pd.Categorical.from_codes(status_code, categories=list(STATUSES)),
+        "score": score,
+        "fail_mask": fail,
+        "marginal_mask": near,
+    }
+    for name in SCORE_COMPONENTS:
+        columns[f"score_{name}"] = components[name]
+    extra = pd.DataFrame(columns, index=analysis.index)
+    table = pd.concat([analysis, extra], axis=1)
+    order = _order(status_code, score, analysis["mpn"].to_numpy())
+    counts = {name: int(np.count_nonzero(status_code == i)) for i, name in enumerate(STATUSES)}
+    return Ranking(analysis=table, order=order, brief=brief, counts=counts)
+
+
+def _order(status: np.ndarray, score: np.ndarray, mpns: np.ndarray) -> np.ndarray:
+    """Positions sorted by status, score descending, then part number (ties only)."""
+    key_score = np.where(np.isfinite(score), -score, np.inf)
+    order = np.lexsort((key_score, status))
+    if order.size < 2:
+        return order
+    s, k = status[order], key_score[order]
+    tied = (s[1:] == s[:-1]) & (k[1:] == k[:-1])
+    if not tied.any():
+        return order
+    # Sort part numbers only inside runs of equal keys: string sorting a million rows is slow.
+    starts = np.flatnonzero(np.diff(np.concatenate(([0], tied.astype(np.int8), [0]))) == 1)
+    ends = np.flatnonzero(np.diff(np.concatenate(([0], tied.astype(np.int8), [0]))) == -1) + 1
+    order = order.copy()
+    for start, end in zip(starts, ends, strict=True):
+        run = order[start:end]
+        names = [str(mpns[i]) for i in run]
+        order[start:end] = run[np.argsort(names, kind="stable")]
+    return order
+
+
+# --------------------------------------------------------------------------- hard rules
+
+
+def _arr(table: pd.DataFrame, name: str) -> np.ndarray:
+    return table[name].to_numpy(dtype=float, na_value=np.nan)
+
+
+def _text(table: pd.DataFrame, name: str) -> np.ndarray:
+    return table[name].astype(str).to_numpy()
+
+
+def failure_mask(table: pd.DataFrame, brief: Brief) -> np.ndarray:
+    """Bitmask (int64) of failed hard rules per row; NaN in a figure counts as failing it."""
+    n = len(table)
+    mask = np.zeros(n, dtype=np.int64)
+    limits = brief.limits
+
+    def fail(rule: str, condition: np.ndarray) -> None:
+        np.bitwise_or(mask, np.where(condition, RULE_BIT[rule], 0), out=mask)
+
+    freq = _arr(table, "frequency_hz")
+    fail("frequency", ~(np.abs(freq - brief.frequency_hz) <= 1e-9 * brief.frequency_hz))
+    fail("never_starts", table["can_never_start"].to_numpy(dtype=bool))
+    t_min, t_max = _arr(table, "temp_min_c"), _arr(table, "temp_max_c")
+    fail("temperature_range", ~((t_min <= brief.temp_min_c) & (t_max >= brief.temp_max_c)))
+    if limits.packages:
+        allowed = {str(p).upper().replace(" ", "") for p in limits.packages}
+        fail("package", ~table["package"].astype(str).isin(allowed).to_numpy())
+    fail("caps", ~table["caps_realisable"].to_numpy(dtype=bool))
+    margin, required = _arr(table, "form_margin"), _arr(table, "form_margin_required")
+    outside = table["outside_esr_table"].to_numpy(dtype=bool)
+    fail("margin", ~(margin >= required) & ~outside)
+    level, rating = _arr(table, "drive_level_w"), _arr(table, "drive_rating_w")
+    fail("drive", level > rating)
+    fail("budget", ~(_arr(table, "budget_headroom_ppm") >= 0.0))
+    lifecycles = _allowed_lifecycles(brief)
+    if lifecycles is not None:
+        fail("lifecycle", ~table["lifecycle"].astype(str).isin(lifecycles).to_numpy())
+    max_height = _optional(limits, "max_height_mm")
+    if max_height is not None:
+        fail("height", _arr(table, "height_mm") > max_height)
+    qualification = _optional(limits, "require_qualification")
+    if qualification:
+        wanted = str(qualification).upper()
+        have = table["qualification"].astype(str).str.upper().str.contains(wanted, regex=False)
+        fail("qualification", ~have.to_numpy(dtype=bool))
+    min_stock = _optional(limits, "min_stock")
+    if min_stock is not None:
+        fail("stock", ~(_arr(table, "stock") >= min_stock))
+    return mask
+
+
+def marginal_mask(table: pd.DataFrame, brief: Brief) -> np.ndarray:
+    """Bitmask of 'close to a limit' conditions (only meaningful where no rule fails)."""
+    band = float(brief.limits.marginal_band)
+    mask = np.zeros(len(table), dtype=np.int64)
+
+    def near(name: str, condition: np.ndarray) -> None:
+        np.bitwise_or(mask, np.where(condition, MARGINAL_BIT[name], 0), out=mask)
+
+    margin, required = _arr(table, "form_margin"), _arr(table, "form_margin_required")
+    near("margin", margin < required * (1.0 + band))
+    near("outside_table", table["outside_esr_table"].to_numpy(dtype=bool))
+    budget = _arr(table, "budget_ppm")
+    near("budget", _arr(table, "budget_headroom_ppm") < band * budget)
+    near("drive", _arr(table, "drive_level_w") > (1.0 - band) * _arr(table, "drive_rating_w"))
+    return mask
+
+
+def _optional(obj: object, name: str) -> Any:
+    return getattr(obj, name, None)
+
+
+def _allowed_lifecycles(brief: Brief) -> set[str] | None:
+    allowed = brief.limits.lifecycle
+    return None if not allowed else {str(v) for v in allowed}
+
+
+# --------------------------------------------------------------------------- score
+
+
+def score_components(table: pd.DataFrame, brief: Brief) -> dict[str, np.ndarray]:
+    """Each score component in 0..1 (higher is better); monotone in the part's figures.
+
+    margin: log(margin / required) / log(FULL_MARGIN_MULTIPLE), clipped — four times the
+    required margin earns the full score. headroom: budget headroom / budget. drive: 1 − drive
+    level / rating. price: cheapest listed price / price (unknown price 0.5). stock:
+    log10(1 + stock) / log10(1 + FULL_STOCK) (unknown 0). lifecycle: active 1, NRND 0.3,
+    obsolete 0, unknown 0.5.
+    """
+    with np.errstate(divide="ignore", invalid="ignore"):
+        margin, required = _arr(table, "form_margin"), _arr(table, "form_margin_required")
+        margin_score = np.log(margin / required) / np.log(FULL_MARGIN_MULTIPLE)
+        headroom = _arr(table, "budget_headroom_ppm") / _arr(table, "budget_ppm")
+        drive = 1.0 - _arr(table, "drive_level_w") / _arr(table, "drive_rating_w")
+        price = _arr(table, "price")
+        finite_price = price[np.isfinite(price) & (price > 0)]
+        cheapest = finite_price.min() if finite_price.size else np.nan
+        price_score = np.where(np.isfinite(price) & (price > 0), cheapest / price, 0.5)
+        stock = np.log10(1.0 + np.maximum(_arr(table, "stock"), 0.0)) / np.log10(1.0 + FULL_STOCK)
+    lifecycle = table["lifecycle"].astype(str).map(LIFECYCLE_SCORE)
+    lifecycle_score = lifecycle.to_numpy(dtype=float, na_value=UNKNOWN_LIFECYCLE_SCORE)
+    raw = {
+        "margin": margin_score,
+        "headroom": headroom,
+        "drive": drive,
+        "price": price_score,
+        "stock": stock,
+        "lifecycle": lifecycle_score,
+    }
+    return {name: np.clip(np.nan_to_num(v, nan=0.0), 0.0, 1.0) for name, v in raw.items()}
+
+
+# --------------------------------------------------------------------------- reasons
+
+
+def reasons_for_row(row: pd.Series, brief: Brief) -> list[str]:
+    """Sentences for a row's failed rules (most fundamental first), then its marginal notes."""
+    fail = int(row["fail_mask"])
+    out = [_RULE_TEXT[rule](row, brief) for rule in RULES if fail & RULE_BIT[rule]]
+    if fail == 0:
+        near = int(row["marginal_mask"])
+        out += [_MARGINAL_TEXT[name](row, brief) for name in MARGINAL if near & MARGINAL_BIT[name]]
+    return out
+
+
+def first_reason(row: pd.Series, brief: Brief) -> str:
+    reasons = reasons_for_row(row, brief)
+    return reasons[0] if reasons else ""
+
+
+def _num(value: float, digits: int = 3) -> str:
+    """A plain number with ``digits`` significant figures (no exponent for everyday sizes)."""
+    if value is None or not np.isfinite(value):
+        return "n/a"
+    text = f"{value:.{digits}g}"
+    if "e" in text:
+        text = f"{value:.{max(digits - 1, 0)}e}"
+    return text
+
+
+def _freq(hz: float) -> str:
+    if hz >= 1e6:
+        return f"{hz / 1e6:.6f}".rstrip("0").rstrip(".") + " MHz"
+    return f"{hz / 1e3:.3f} kHz"
+
+
+def _cap(f: float) -> str:
+    return f"{_num(f * 1e12)} pF"
+
+
+def _power(w: float) -> str:
+    return f"{_num(w * 1e6)} µW"
+
+
+def _gm(s: float) -> str:
+    return f"{_num(s * 1e3)} mA/V" if s >= 1e-4 else f"{_num(s * 1e6)} µA/V"
+
+
+def _temp(c: float) -> str:
+    return f"{c:g}".replace("-", "−")
+
+
+def _form_limit_text(row: pd.Series, brief: Brief) -> str:
+    form = str(row["amplifier_form"])
+    margin, required = float(row["form_margin"]), float(row["form_margin_required"])
+    if form == "gm_crit_max":
+        return (
+            f"gm_crit {_gm(float(row['gm_critical_s']))} exceeds the chip's maximum "
+            f"{_gm(float(brief.amplifier.gm_crit_max_s))}"
+        )
+    if form == "max_esr":
+        return (
+            f"ESR {_num(float(row['esr_ohm']))} Ω exceeds the {_num(float(row['max_esr_ohm']))} Ω "
+            f"the chip allows at CL {_cap(float(row['load_capacitance_f']))}"
+        )
+    text = f"margin {_num(margin, 2)} < {_num(required, 2)} with this amplifier"
+    if form == "gm_settings":
+        text += " even at its highest drive setting"
+    return text
+
+
+def _temperature_text(row: pd.Series, brief: Brief) -> str:
+    lo, hi = float(row["temp_min_c"]), float(row["temp_max_c"])
+    misses = []
+    if not lo <= brief.temp_min_c:
+        misses.append(f"{_temp(brief.temp_min_c)} °C")
+    if not hi >= brief.temp_max_c:
+        misses.append(f"{_temp(brief.temp_max_c)} °C")
+    return f"rated {_temp(lo)}…{_temp(hi)} °C does not cover {' or '.join(misses)}"
+
+
+def _caps_text(row: pd.Series, brief: Brief) -> str:
+    spec = float(row["spec_load_capacitance_f"])
+    return (
+        f"load capacitance {_cap(spec)} cannot be built on this board: stray "
+        f"{_cap(brief.board.stray_capacitance_f)} and pin capacitance leave no standard "
+        "capacitor value"
+    )
+
+
+_RULE_TEXT: dict[str, Callable[[pd.Series, Brief], str]] = {
+    "frequency": lambda r, b: (
+        f"nominal {_freq(float(r['frequency_hz']))} is not the brief's {_freq(b.frequency_hz)}"
+    ),
+    "never_starts": lambda r, b: (
+        f"ESR {_num(float(r['esr_ohm']))} Ω is above the most this circuit can cancel "
+        f"(|Rneg|max {_num(float(r['negative_resistance_max_ohm']))} Ω at these caps): "
+        "it can never start"
+    ),
+    "temperature_range": _temperature_text,
+    "package": lambda r, b: (
+        f"package {r['package']} is not allowed ({', '.join(map(str, b.limits.packages))})"
+    ),
+    "caps": _caps_text,
+    "margin": _form_limit_text,
+    "drive": lambda r, b: (
+        f"drive level {_power(float(r['drive_level_w']))} > rating "
+        f"{_power(float(r['drive_rating_w']))}"
+    ),
+    "budget": lambda r, b: (
+        f"total error {_num(float(r['error_total_ppm']))} ppm > budget "
+        f"{_num(float(r['budget_ppm']))} ppm"
+    ),
+    "lifecycle": lambda r, b: f"lifecycle '{r['lifecycle'] or 'unknown'}' is not allowed",
+    "height": lambda r, b: (
+        f"height {_num(float(r['height_mm']))} mm > {_num(float(b.limits.max_height_mm))} mm"
+    ),
+    "qualification": lambda r, b: f"not qualified to {b.limits.require_qualification}",
+    "stock": lambda r, b: f"stock {_num(float(r['stock']))} < {_num(float(b.limits.min_stock))}",
+}
+
+
+def _near_margin_text(row: pd.Series, brief: Brief) -> str:
+    band = round(brief.limits.marginal_band * 100)
+    form = str(row["amplifier_form"])
+    value = _num(float(row["form_margin"]), 2)
+    if form == "gm_crit_max":
+        return f"gain margin {value} is within {band} % of the chip's gm_crit limit"
+    if form == "max_esr":
+        return f"ESR is within {band} % of the chip's maximum (allowed/ESR {value})"
+    required = _num(float(row["form_margin_required"]), 2)
+    return f"margin {value} is within {band} % of the minimum {required}"
+
+
+def _outside_table_text(row: pd.Series, brief: Brief) -> str:
+    table = brief.amplifier.max_esr
+    points = [] if table is None else [p * 1e12 for p in table.load_capacitance_f]
+    span = f"{_num(min(points))}–{_num(max(points))} pF" if points else "no points"
+    return (
+        f"CL {_cap(float(row['load_capacitance_f']))} is outside the chip's ESR table ({span}): "
+        "not extrapolated, review by hand"
+    )
+
+
+_MARGINAL_TEXT: dict[str, Callable[[pd.Series, Brief], str]] = {
+    "margin": _near_margin_text,
+    "outside_table": _outside_table_text,
+    "budget": lambda r, b: (
+        f"budget headroom {_num(float(r['budget_headroom_ppm']))} ppm is within "
+        f"{round(b.limits.marginal_band * 100)} % of the {_num(float(r['budget_ppm']))} ppm "
+        "budget"
+    ),
+    "drive": lambda r, b: (
+        f"drive level {_power(float(r['drive_level_w']))} is within "
+        f"{round(b.limits.marginal_band * 100)} % of the rating "
+        f"{_power(float(r['drive_rating_w']))}"
+    ),
+}
