@@ -23,6 +23,7 @@ __all__ = [
     "UnitError",
     "canonical_unit",
     "format_quantity",
+    "is_bare_number",
     "parse_quantity",
     "parse_temperature_range",
     "ureg",
@@ -168,6 +169,11 @@ _CURRENCY: Final[re.Pattern[str]] = re.compile(
 )
 
 
+_CURRENCY_NAMES: Final[frozenset[str]] = frozenset(
+    {"", "$", "€", "£", "¥", "usd", "eur", "gbp", "chf", "jpy", "cny", "each", "ea", "/pc", "/ea"}
+)
+
+
 def canonical_unit(dimension: Dimension) -> str:
     """Return the canonical unit symbol (as shown to users) of ``dimension``."""
     return {
@@ -235,6 +241,15 @@ def parse_quantity(
     if message is not None:
         raise UnitError(message)
     return value
+
+
+def is_bare_number(text: str) -> bool:
+    """True when ``text`` is a number without a unit ("12", "±20", "12,5 max")."""
+    if not isinstance(text, str) or len(text) > _MAX_TEXT:
+        return False
+    cleaned = _normalise_number(_strip_decorations(text), "")
+    match = _NUMBER_THEN_UNIT.match(cleaned)
+    return match is not None and not match.group(2).strip()
 
 
 def parse_temperature_range(text: str) -> tuple[float, float]:
@@ -425,7 +440,11 @@ def _convert(number: float, unit: str, dimension: str, raw: str) -> float:
         if compact not in allowed:
             raise UnitError(_expected(dimension, raw))
         return number
-    if dimension in ("money", "count"):
+    if dimension == "money":
+        if key not in _CURRENCY_NAMES:
+            raise UnitError(_expected(dimension, raw))
+        return number
+    if dimension == "count":
         if key not in ("", "pcs", "pc", "pieces", "units", "ea"):
             raise UnitError(_expected(dimension, raw))
         return number
