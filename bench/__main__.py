@@ -26,17 +26,29 @@ SEED = 1234
 PYTHON = sys.executable
 
 
+def generator_fingerprint() -> str:
+    """Short digest of the demo generator's source: a changed generator means new files."""
+    import hashlib
+
+    import demo_catalog
+
+    hasher = hashlib.blake2b(digest_size=4)
+    for source in sorted(Path(demo_catalog.__file__).parent.glob("*.py")):
+        hasher.update(source.read_bytes())
+    return hasher.hexdigest()
+
+
 def catalog_csv(rows: int, *, seed: int = SEED, folder: Path = DATA) -> Path:
-    """The synthetic catalog of ``rows`` parts (generated once, then reused)."""
+    """The synthetic catalog of ``rows`` parts (generated once, reused while unchanged)."""
     from demo_catalog.generate import generate_parts, write_csv
 
     folder.mkdir(parents=True, exist_ok=True)
-    path = folder / f"parts_{rows}_seed{seed}.csv"
+    stem = f"parts_{rows}_seed{seed}_"
+    path = folder / f"{stem}{generator_fingerprint()}.csv"
     if not path.exists():
-        frame = generate_parts(rows, seed)
-        temp = path.with_suffix(".tmp")
-        write_csv(frame, temp)
-        os.replace(temp, path)
+        for old in folder.glob(f"{stem}*.csv"):
+            old.unlink()
+        write_csv(generate_parts(rows, seed), path)  # write_csv is atomic
     return path
 
 
