@@ -70,6 +70,7 @@ __all__ = [
     "default_brief_path",
     "demo_brief_paths",
     "load_brief",
+    "load_brief_mapping",
     "parse_brief",
 ]
 
@@ -992,8 +993,8 @@ def _amplifier_form(data: Mapping[str, object], path: Path_, given: list[str]) -
     if len(given) > 1:
         raise _fail(
             path,
-            f"{' and '.join(given)} are all given; add 'form: {given[0]}' (or another) "
-            "to say which one the analysis uses",
+            f"{' and '.join(given)} are {'both' if len(given) == 2 else 'all'} given; add "
+            f"'form: {given[0]}' (or another) to say which one the analysis uses",
         )
     return cast(AmplifierForm, given[0])
 
@@ -1324,10 +1325,12 @@ def _budget(
         _bounded(budget, ("budget",), raw, above=0.0)
         _bounded(budget, ("budget",), raw, below=1e6, why="a million ppm is the whole frequency")
         return budget, "brief"
+    # Derived budgets are kept to 15 significant digits, as parsed values are, so that a
+    # brief written out in full reads back to the same number.
     if preset is not None and preset.budget_ppm is not None:
-        return preset.budget_ppm, preset.clause
+        return float(f"{preset.budget_ppm:.15g}"), preset.clause
     if can is not None:
-        return can.tolerance_ppm(), can.describe()
+        return float(f"{can.tolerance_ppm():.15g}"), can.describe()
     if preset is not None:
         raise _fail(
             ("can",),
@@ -1350,6 +1353,32 @@ def _implied_role(preset: Preset | None, can: CanBitTiming | None) -> str:
 
 
 # --- reading files --------------------------------------------------------------------------
+
+
+def load_brief_mapping(path: str | Path) -> dict[str, object]:
+    """Read a brief file as a plain mapping (for an editor), with the checks of load_brief.
+
+    The file is size-capped, must be UTF-8 YAML without duplicate keys or aliases, and
+    must hold a mapping; its values are not checked (use :func:`parse_brief` for that).
+
+    Raises
+    ------
+    BriefError
+        As :func:`load_brief` does for the file itself.
+    """
+    source = str(path)
+    text = _read_text(Path(path), source)
+    _yaml_lines(text, source)
+    data = yaml.safe_load(text)
+    if data is None:
+        return {}
+    if not isinstance(data, dict):
+        raise BriefError(
+            f"the brief must be a mapping of keys such as 'frequency: 32 MHz', got "
+            f"{_describe_type(data)}",
+            source=source,
+        )
+    return cast(dict[str, object], data)
 
 
 def load_brief(path: str | Path) -> Brief:
