@@ -12,6 +12,7 @@ from collections.abc import Sequence
 from pathlib import Path
 from typing import ClassVar
 
+import numpy as np
 import pandas as pd
 from textual import on, work
 from textual.app import App, ComposeResult
@@ -33,7 +34,7 @@ from textual.worker import Worker, WorkerState
 from picker.tui.brief_pane import BriefPane
 from picker.tui.commands import PickerCommands
 from picker.tui.dialogs import ExportDialog, FindDialog, PathDialog
-from picker.tui.export import ExportError, brief_yaml, export_text, write_atomic
+from picker.tui.export import ExportError, brief_yaml, write_atomic
 from picker.tui.help_screen import HelpScreen
 from picker.tui.lists import AlternatesView, RuledOutView, fit_cells
 from picker.tui.model import Alternates, Core, Loaded, PartSheet, Preset, Shortlist
@@ -52,16 +53,6 @@ TABS = (
     ("tab-sheet", "Part sheet"),
     ("tab-ruled-out", "Ruled out"),
     ("tab-alternates", "Alternates"),
-)
-
-MARKDOWN_COLUMNS = (
-    "mpn",
-    "status",
-    "score",
-    "package",
-    "negative_resistance_margin",
-    "error_total_ppm",
-    "budget_headroom_ppm",
 )
 
 
@@ -110,6 +101,7 @@ class PickerApp(App[int]):
         self.shortlist: Shortlist | None = None
         self.alternates_result: Alternates | None = None
         self._ruled_out_view: pd.DataFrame | None = None
+        self._ruled_source: Shortlist | None = None
         self._rerank_timer: Timer | None = None
         self._filter_timer: Timer | None = None
         self._presets: tuple[Preset, ...] = ()
@@ -221,7 +213,7 @@ class PickerApp(App[int]):
         tabs = self.query_one("#tabs", TabbedContent)
         tabs.display = True
         self.run_worker(
-            self.query_one(BriefPane).show(data, str(self.brief_path)), group="brief-pane"
+            self.query_one(BriefPane).show(data, self.brief_path.name), group="brief-pane"
         )
         if loaded.problems:
             first = loaded.problems[0]
@@ -270,7 +262,7 @@ class PickerApp(App[int]):
 
     def _update_status(self, extra: str = "") -> None:
         parts = 0 if self.loaded is None else len(self.loaded.parts)
-        name = str(self.query_one(BriefPane).data.get("name", self.brief_path.name))
+        name = str(getattr(self.brief, "name", None) or self.brief_path.name)
         if self.shortlist is None:
             counts = "not ranked"
         else:
@@ -311,13 +303,16 @@ class PickerApp(App[int]):
 
     @on(RowList.Highlighted, "#ruled-out")
     def _ruled_moved(self, event: RowList.Highlighted) -> None:
-        mpn = self.query_one(RuledOutView).current_mpn()
+        view = self.query_one(RuledOutView)
+        key = view.current_key()
         detail = self.query_one("#ruled-detail", Static)
-        if mpn is None or self.shortlist is None:
+        if key is None or self.shortlist is None:
             detail.update("")
             return
-        reasons = self.core.ruled_out_reasons(self.shortlist, mpn)
-        detail.update(f"{mpn} is ruled out:\n" + "\n".join(f"  ✘ {r}" for r in reasons))
+        reasons = self.core.reasons_at(self.shortlist, key)
+        detail.update(
+            f"{view.current_mpn()} is ruled out:\n" + "\n".join(f"  ✘ {r}" for r in reasons)
+        )
 
     @on(RowList.Highlighted, "#alternates")
     def _alternate_moved(self, event: RowList.Highlighted) -> None:
@@ -361,15 +356,30 @@ class PickerApp(App[int]):
         self.call_from_thread(self._show_ruled_out, frame)
 
     def _show_ruled_out(self, frame: pd.DataFrame) -> None:
+        shortlist = self.shortlist
+        same = self._ruled_out_view is not None and shortlist is self._ruled_source
         self._ruled_out_view = frame
+        self._ruled_source = shortlist
+
+        def sentence(key: int) -> str:
+            if shortlist is None:
+                return ""
+            reasons = self.core.reasons_at(shortlist, key)
+            return reasons[0] if reasons else ""
+
         self.query_one(RuledOutView).show(
+            frame["key"].to_numpy(dtype=np.int64),
             frame["mpn"].astype(str).to_numpy(),
             frame["package"].astype(str).to_numpy(),
             frame["first_reason"].astype(str).to_numpy(),
+            sentence,
+            same_ranking=same,
         )
 
     # -------------------------------------------------------------- alternates
     def action_alternates(self) -> None:
+        if self.loaded is None:
+            return
         mpn = self._highlighted_mpn()
         self.action_tab("tab-alternates")
         if mpn is not None:
@@ -490,17 +500,14 @@ class PickerApp(App[int]):
         if self.loaded is None or self.shortlist is None:
             return
         try:
-            rows = self.core.export_rows(self.loaded.parts, self.shortlist, self.brief)
-            text = export_text(
-                rows, format_name, title="picker shortlist", markdown_columns=MARKDOWN_COLUMNS
+            text, count = self.core.export_text(
+                self.loaded.parts, self.shortlist, self.brief, format_name
             )
             written = write_atomic(path, text, [*self.input_files(), self.brief_path])
         except (ExportError, OSError, ValueError) as error:
             self.call_from_thread(self.notify, f"✘ {error}", title="Export", severity="error")
             return
-        self.call_from_thread(
-            self.notify, f"✔ Wrote {len(rows):,} parts to {written}", title="Export"
-        )
+        self.call_from_thread(self.notify, f"✔ Wrote {count:,} parts to {written}", title="Export")
 
     # ------------------------------------------------------------------- brief
     def action_save_brief(self) -> None:
@@ -547,7 +554,7 @@ class PickerApp(App[int]):
 
     def _brief_opened(self, path: Path, data: dict[str, object], brief: object, error: str) -> None:
         self.brief_path = path
-        self.run_worker(self.query_one(BriefPane).show(data, str(path)), group="brief-pane")
+        self.run_worker(self.query_one(BriefPane).show(data, path.name), group="brief-pane")
         if brief is None:
             self.notify(f"✘ {error}", title="Open brief", severity="error")
             self.action_tab("tab-brief")
@@ -584,20 +591,24 @@ class PickerApp(App[int]):
             return
         line = self.core.bom_line(self.loaded.parts, self.shortlist, self.brief, mpn)
         self.copy_to_clipboard(line)
-        self.notify(f"Copied BOM line: {line}", title="Clipboard")
+        self.notify("Copied BOM line: " + line.replace("\t", " · "), title="Clipboard")
 
     # -------------------------------------------------------------- navigation
     def action_tab(self, tab_id: str) -> None:
         tabs = self.query_one("#tabs", TabbedContent)
+        if not tabs.display:
+            return  # still loading: nothing to show yet
         tabs.active = tab_id
         focus_target = {
-            "tab-brief": "#brief Input",
+            "tab-brief": "#brief",
             "tab-shortlist": "#shortlist",
             "tab-sheet": "#sheet",
             "tab-ruled-out": "#ruled-out",
             "tab-alternates": "#alternates",
         }[tab_id]
-        self.set_focus(self.query(focus_target).first())
+        targets = self.query(focus_target)
+        if targets:
+            self.set_focus(targets.first())
 
     @on(TabbedContent.TabActivated)
     def _tab_activated(self, event: TabbedContent.TabActivated) -> None:

@@ -15,11 +15,17 @@ from picker.tui.brief_fields import field_for_error, field_value, flatten_brief,
 from picker.tui.model import BriefField, Core, Preset
 
 
+def preset_label(preset: Preset) -> str:
+    """ "USB 2.0 full-speed — ±2500 ppm" (or the note that the budget is derived)."""
+    budget = "budget from the brief" if preset.budget_ppm is None else f"±{preset.budget_ppm:g} ppm"
+    return f"{preset.title} — {budget}"
+
+
 def _input_id(index: int) -> str:
     return f"brief-field-{index}"
 
 
-class BriefPane(VerticalScroll):
+class BriefPane(VerticalScroll, can_focus=True):
     """One labelled Input per leaf of the brief; the last valid brief is kept.
 
     Posts `BriefPane.Valid` when the edited brief parses, `BriefPane.Invalid` otherwise.
@@ -28,9 +34,10 @@ class BriefPane(VerticalScroll):
     DEFAULT_CSS = """
     BriefPane { height: 1fr; padding: 0 1; }
     BriefPane .brief-row { height: 1; }
-    BriefPane .brief-label { width: 26; color: $text-muted; }
+    BriefPane .brief-label { width: 24; color: $text-muted; }
+    BriefPane .brief-section { height: 1; text-style: bold; margin-top: 1; }
     BriefPane .brief-row Input { width: 1fr; }
-    BriefPane .brief-error { color: $error; height: auto; padding-left: 26; }
+    BriefPane .brief-error { color: $error; height: auto; padding-left: 24; }
     BriefPane .brief-error.-empty { display: none; }
     BriefPane #brief-status { height: auto; color: $text-muted; }
     BriefPane #brief-status.-bad { color: $error; }
@@ -80,16 +87,23 @@ class BriefPane(VerticalScroll):
         await container.remove_children()
         self._fields = []
         rows: list[Widget] = []
+        section: tuple[str, ...] = ()
         for index, (brief_field, text) in enumerate(flatten_brief(self._data)):
             self._fields.append(brief_field)
             unit_hint = f" [{brief_field.dimension}]" if brief_field.dimension else ""
+            parent = brief_field.path[:-1]
+            if parent and parent != section:
+                rows.append(Static(".".join(parent), classes="brief-section", markup=False))
+            section = parent
+            indent = "  " if parent else ""
             rows.append(
                 Horizontal(
-                    Label(brief_field.label, classes="brief-label"),
+                    Label(indent + brief_field.path[-1], classes="brief-label", markup=False),
                     Input(
                         text,
                         id=_input_id(index),
                         compact=True,
+                        select_on_focus=False,
                         tooltip=f"{brief_field.meaning}{unit_hint}",
                         placeholder=brief_field.meaning,
                     ),
@@ -100,12 +114,14 @@ class BriefPane(VerticalScroll):
         await container.mount_all(rows)
         self._presets = self._core.presets()
         select = self.query_one("#brief-preset", Select)
-        select.set_options([(f"{p.title} — {p.budget_ppm:g} ppm", p.name) for p in self._presets])
+        select.set_options([(preset_label(p), p.name) for p in self._presets])
         preset = self._data.get("preset")
         if isinstance(preset, str) and any(p.name == preset for p in self._presets):
             select.value = preset
         self._set_status(
-            f"Brief {path_label} — edit any field; ctrl+s saves, ctrl+o opens.", bad=False
+            f"Brief {path_label}: tab into a field and edit it (escape leaves); "
+            "ctrl+s saves, ctrl+o opens another.",
+            bad=False,
         )
         self.call_after_refresh(self._done_loading)
 
@@ -158,8 +174,13 @@ class BriefPane(VerticalScroll):
             data["preset"] = str(event.value)
             preset = next(p for p in self._presets if p.name == event.value)
             # An explicit budget would override the preset; the preset's own figure replaces it.
-            data["budget"] = f"{preset.budget_ppm:g} ppm"
-            self._set_input(("budget",), data["budget"])
+            if preset.budget_ppm is None:
+                # The preset derives the budget from data in the brief (CAN bit timing).
+                data.pop("budget", None)
+                self._set_input(("budget",), "")
+            else:
+                data["budget"] = f"{preset.budget_ppm:g} ppm"
+                self._set_input(("budget",), data["budget"])
         self._try(data)
 
     def _set_input(self, path: tuple[str, ...], text: object) -> None:

@@ -7,6 +7,8 @@ from typing import TYPE_CHECKING, cast
 
 from textual.command import DiscoveryHit, Hit, Hits, Provider
 
+from picker.tui.brief_pane import preset_label
+
 if TYPE_CHECKING:
     from picker.tui.app import PickerApp
 
@@ -21,7 +23,7 @@ class PickerCommands(Provider):
             entries.append(
                 (
                     f"Preset: {preset.title}",
-                    f"budget ±{preset.budget_ppm:g} ppm — {preset.clause}",
+                    f"{preset_label(preset)} — {preset.clause}",
                     f"preset('{preset.name}')",
                 )
             )

@@ -2,7 +2,8 @@
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+import contextlib
+from collections.abc import Callable, Sequence
 
 import numpy as np
 
@@ -25,25 +26,61 @@ def fit_cells(fit: str) -> tuple[str, str | None]:
 
 
 class RuledOutView(RowList):
-    """Ruled-out parts: part number, package and the most fundamental reason."""
+    """Ruled-out parts: part number, package and the most fundamental reason.
+
+    The reason sentence carries the part's own numbers, so it is asked of the core only for
+    the rows on screen (and remembered); the short rule label stands in until then.
+    """
 
     empty_text = "no part is ruled out (or none matches the filter)"
 
     def __init__(self, *, id: str | None = None) -> None:
         super().__init__(id=id)
+        self._keys: np.ndarray = np.array([], dtype=np.int64)
         self._mpn: Texts = ()
         self._package: Texts = ()
-        self._reason: Texts = ()
+        self._label: Texts = ()
+        self._sentence: Callable[[int], str] | None = None
+        self._sentences: dict[int, str] = {}
 
-    def show(self, mpn: Texts, package: Texts, reason: Texts) -> None:
-        self._mpn, self._package, self._reason = mpn, package, reason
+    def show(
+        self,
+        keys: np.ndarray,
+        mpn: Texts,
+        package: Texts,
+        label: Texts,
+        sentence: Callable[[int], str] | None = None,
+        *,
+        same_ranking: bool = False,
+    ) -> None:
+        self._keys, self._mpn, self._package, self._label = keys, mpn, package, label
+        self._sentence = sentence
+        if not same_ranking:
+            self._sentences = {}
         self.set_row_count(len(mpn))
 
     def current_mpn(self) -> str | None:
         return str(self._mpn[self.cursor]) if self.row_count else None
 
+    def current_key(self) -> int | None:
+        return int(self._keys[self.cursor]) if self.row_count else None
+
+    def index_of(self, mpn: str) -> int | None:
+        hits = np.flatnonzero(np.asarray(self._mpn, dtype=object) == mpn)
+        return int(hits[0]) if hits.size else None
+
+    def _reason(self, index: int) -> str:
+        key = int(self._keys[index])
+        if key not in self._sentences:
+            text = str(self._label[index])
+            if self._sentence is not None:
+                with contextlib.suppress(KeyError, IndexError, ValueError):
+                    text = self._sentence(key)
+            self._sentences[key] = text
+        return self._sentences[key]
+
     def _mpn_width(self, width: int) -> int:
-        return min(max(width // 3, 12), 24)
+        return min(max(width // 4, 12), 22)
 
     def header_cells(self, width: int) -> Cells:
         w = self._mpn_width(width - 1)
@@ -57,7 +94,7 @@ class RuledOutView(RowList):
             (f"{mpn:<{w}} ", None),
             (f"{str(self._package[index])[:8]:<8} ", None),
             ("✘ ", "rowlist--bad"),
-            (str(self._reason[index]), None),
+            (self._reason(index), None),
         ]
 
 

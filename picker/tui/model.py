@@ -41,7 +41,9 @@ SHORTLIST_COLUMNS = (
 )
 """Columns of `Shortlist.rows`; floats in SI (F, ohm), ppm, plain ratios."""
 
-RULED_OUT_COLUMNS = ("mpn", "package", "first_reason")
+RULED_OUT_COLUMNS = ("key", "mpn", "package", "first_reason")
+"""Columns of `Shortlist.ruled_out`: `key` is handed back to `Core.reasons_at`; `first_reason`
+is a short label of the most fundamental failed rule (cheap at a million rows)."""
 
 
 @dataclass(frozen=True)
@@ -181,7 +183,7 @@ class Preset:
 
     name: str
     title: str
-    budget_ppm: float
+    budget_ppm: float | None
     clause: str
 
 
@@ -241,7 +243,7 @@ class Core(Protocol):
 
     def rank(self, parts: pd.DataFrame, brief: object) -> Shortlist: ...
 
-    def ruled_out_reasons(self, shortlist: Shortlist, mpn: str) -> tuple[str, ...]: ...
+    def reasons_at(self, shortlist: Shortlist, key: int) -> tuple[str, ...]: ...
 
     def sheet(
         self, parts: pd.DataFrame, shortlist: Shortlist, brief: object, mpn: str
@@ -251,9 +253,9 @@ class Core(Protocol):
 
     def match(self, parts: pd.DataFrame, text: str) -> Match: ...
 
-    def export_rows(
-        self, parts: pd.DataFrame, shortlist: Shortlist, brief: object
-    ) -> list[dict[str, object]]: ...
+    def export_text(
+        self, parts: pd.DataFrame, shortlist: Shortlist, brief: object, format_name: str
+    ) -> tuple[str, int]: ...
 
     def bom_line(
         self, parts: pd.DataFrame, shortlist: Shortlist, brief: object, mpn: str

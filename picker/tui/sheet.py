@@ -83,7 +83,7 @@ def sheet_text(sheet: PartSheet, width: int) -> Text:
     label_width = min(max((len(f.label) for f in sheet.figures), default=10), 28)
     for figure in sheet.figures:
         tag = SOURCE_TAGS.get(figure.source, figure.source)
-        line = f"  {figure.label:<{label_width}} {figure.value:>14}  [{tag}]"
+        line = f"  {figure.label:<{label_width}} {figure.value:>16}  [{tag}]"
         text.append(line, style="bold" if figure.source == "estimate" else "")
         if figure.meaning and width >= len(line) + 4 + len(figure.meaning):
             text.append(f"  {figure.meaning}", style="dim")

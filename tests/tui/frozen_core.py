@@ -14,6 +14,7 @@ import numpy as np
 import pandas as pd
 
 from catalog.units import parse_quantity
+from picker.tui.export import export_text
 from picker.tui.model import (
     Alternate,
     Alternates,
@@ -147,6 +148,7 @@ class FrozenCore:
         out = table[table["status"] == "ruled_out"].reset_index(drop=True)
         ruled = pd.DataFrame(
             {
+                "key": np.arange(len(out)),
                 "mpn": out["mpn"],
                 "package": out["package"],
                 "first_reason": [self._reasons(r, brief)[0] for _, r in out.iterrows()],
@@ -164,12 +166,12 @@ class FrozenCore:
             )
         return tuple(reasons) or ("none",)
 
-    def ruled_out_reasons(self, shortlist: Shortlist, mpn: str) -> tuple[str, ...]:
+    def reasons_at(self, shortlist: Shortlist, key: int) -> tuple[str, ...]:
         table = shortlist.ranking
         assert isinstance(table, pd.DataFrame)
-        row = table[table["mpn"] == mpn].iloc[0]
+        out = table[table["status"] == "ruled_out"].reset_index(drop=True)
         return self._reasons(
-            row, {"min_margin": shortlist.min_margin, "budget": shortlist.budget_ppm}
+            out.iloc[int(key)], {"min_margin": shortlist.min_margin, "budget": shortlist.budget_ppm}
         )
 
     def sheet(
@@ -235,10 +237,11 @@ class FrozenCore:
         note = "" if result.kind == "exact" else result.describe()
         return Match(result.mpn, tuple(c for c, _ in result.candidates), note)
 
-    def export_rows(
-        self, parts: pd.DataFrame, shortlist: Shortlist, brief: object
-    ) -> list[dict[str, object]]:
-        return [dict(r) for _, r in shortlist.rows.iterrows()]
+    def export_text(
+        self, parts: pd.DataFrame, shortlist: Shortlist, brief: object, format_name: str
+    ) -> tuple[str, int]:
+        rows = [dict(r) for _, r in shortlist.rows.iterrows()]
+        return export_text(rows, format_name, title="test shortlist"), len(rows)
 
     def bom_line(self, parts: pd.DataFrame, shortlist: Shortlist, brief: object, mpn: str) -> str:
         return f"Y1, {mpn}, crystal 16 MHz; C1 C2 18 pF"
