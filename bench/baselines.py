@@ -325,7 +325,7 @@ _DUCKDB_COLUMNS = frozenset(
 
 def rank_duckdb(con: Any, circuit: Circuit) -> Any:
     """Run the ranking query; the result is fetched as an Arrow table (cheapest transfer)."""
-    return con.execute(_duckdb_sql(circuit)).arrow()
+    return con.sql(_duckdb_sql(circuit)).to_arrow_table()
 
 
 def loop_matches_vector(parts: pd.DataFrame, circuit: Circuit, *, sample: int = 2000) -> float:

@@ -36,14 +36,14 @@ async def keystroke_to_shortlist(
     leaves out the app's debounce: it runs from the moment the re-rank starts.
     """
     os.environ["PICKER_CACHE_DIR"] = str(cache)
-    from picker.tui.core import PickerCore
     from textual.widgets import Input, TabbedContent
 
-    from picker.brief import default_brief_path
+    from bench.probe import bench_brief_path
     from picker.tui.app import PickerApp
     from picker.tui.brief_pane import BriefPane
+    from picker.tui.core import PickerCore
 
-    app = PickerApp(PickerCore(), [Path(csv)], default_brief_path())
+    app = PickerApp(PickerCore(), [Path(csv)], bench_brief_path())
     shown: list[float] = []
     started: list[float] = []
     original_show = app._show_ranking
