@@ -146,9 +146,19 @@ def rank_analysis(analysis: pd.DataFrame, brief: Brief) -> Ranking:
         columns[f"score_{name}"] = components[name]
     extra = pd.DataFrame(columns, index=analysis.index)
     table = pd.concat([analysis, extra], axis=1)
-    order = _order(status_code, score, analysis["mpn"].to_numpy())
+    # Ruled-out parts: those failing fewer rules first (closest to usable), then by score.
+    failures = _popcount(fail)
+    order = _order(status_code, score - failures, analysis["mpn"].to_numpy())
     counts = {name: int(np.count_nonzero(status_code == i)) for i, name in enumerate(STATUSES)}
     return Ranking(analysis=table, order=order, brief=brief, counts=counts)
+
+
+def _popcount(mask: np.ndarray) -> np.ndarray:
+    """Number of set bits per element (how many hard rules a part fails)."""
+    count = np.zeros(mask.shape, dtype=np.int64)
+    for bit in RULE_BIT.values():
+        count += (mask & bit) != 0
+    return count
 
 
 def _order(status: np.ndarray, score: np.ndarray, mpns: np.ndarray) -> np.ndarray:

@@ -228,8 +228,18 @@ def num(value: Any, digits: int = 3) -> str:
     number = _float(value)
     if number is None:
         return "—"
+    if 1e3 <= abs(number) < 1e7:
+        return f"{number:.0f}"  # budgets such as 2500 ppm read better without an exponent
     text = f"{number:.{digits}g}"
     return text if "e" not in text else f"{number:.1e}"
+
+
+def ohms(value: Any) -> str:
+    """A resistance in at most four characters: "60", "120", "50k" (tuning forks)."""
+    number = _float(value)
+    if number is None:
+        return "—"
+    return f"{number / 1e3:.3g}k" if abs(number) >= 1e3 else f"{number:.3g}"
 
 
 def bar(fraction: float | None, width: int = 6) -> str:
@@ -290,7 +300,7 @@ def ranking_table(ranking: Ranking, frame: pd.DataFrame, *, total_shown: str = "
         cl_text = "ser" if cl is None else f"{cl * 1e12:.3g}"
         lines.append(
             f"{position:>3} {_clip(str(row['mpn']), 15):<15} {_clip(str(row['package']), 6):<6}"
-            f"{cl_text:>5}{num(row['esr_ohm'], 3):>5}{num(margin, 2):>7} "
+            f"{cl_text:>5}{ohms(row['esr_ohm']):>5}{num(margin, 2):>7} "
             f"{bar(margin_fraction)}{num(total, 3):>5}/{num(budget, 3):<4}"
             f"{bar(used)} {STATUS_MARK.get(status, status)}"
         )
@@ -335,12 +345,12 @@ def part_sheet(row: pd.Series, brief: Brief) -> str:
     def section(title: str, items: Iterable[tuple[str, str, str]]) -> None:
         lines.append(title)
         for label, value, origin in items:
-            lines.append(f"  {label:<34}{value:<28}{origin}"[:WIDTH].rstrip())
+            lines.append(f"  {label:<31}{value:<29}{origin}"[:WIDTH].rstrip())
         lines.append("")
 
     spec_cl = _float(row["spec_load_capacitance_f"])
     section(
-        "Crystal                            value                       from",
+        f"{'Crystal':<33}{'value':<29}from",
         [
             ("nominal frequency", fmt(row["frequency_hz"], "frequency", 9), "catalog"),
             (
@@ -546,7 +556,7 @@ def alternates_csv(result: Any, rows: Sequence[Any]) -> str:
 
 _FIT_TEXT = {
     "drop_in": "drop-in",
-    "drop_in_new_caps": "drop-in, new caps",
+    "drop_in_new_caps": "drop-in with new caps",
     "review": "review",
     "incompatible": "incompatible",
 }
@@ -567,7 +577,7 @@ def alternates_table(result: Any, rows: Sequence[Any]) -> str:
         ("circuit: " + _clip(result.brief.name, 60))
         if result.brief is not None
         else "data-sheet comparison only (give --brief to check each part in your circuit)",
-        ", ".join(f"{counts[k]} {_FIT_TEXT[k]}" for k in _FIT_TEXT),
+        ", ".join(f"{_FIT_TEXT[k]}: {counts[k]}" for k in _FIT_TEXT),
         "",
     ]
     for rank, alt in enumerate(rows, start=1):
