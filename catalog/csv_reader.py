@@ -10,12 +10,18 @@ time, so an unbalanced quote or an oversized cell spoils only its own row.
 from __future__ import annotations
 
 import csv
+import io
 import re
+from dataclasses import dataclass
 from pathlib import Path
 from typing import Final
 
+import numpy as np
+import pyarrow as pa
+import pyarrow.csv as pacsv
+
 from catalog.problems import CatalogError, Problem
-from catalog.rawtable import DEFAULT_LIMITS, Limits, RawTable
+from catalog.rawtable import DEFAULT_LIMITS, Column, Limits, RawTable, columns_from_rows
 from catalog.textfile import decode_catalog_bytes, read_catalog_bytes
 
 __all__ = ["read_csv_table", "sniff_delimiter", "split_csv_text"]
@@ -81,6 +87,9 @@ def split_csv_text(
             first += 1
     if delimiter is None:
         delimiter = sniff_delimiter(lines[first:])
+    fast = _split_fast(lines, first, delimiter, limits)
+    if fast is not None:
+        return fast[0], fast[1], problems, set(), delimiter
     records: list[list[str]] = []
     starts: list[int] = []
     bad: set[int] = set()
@@ -164,6 +173,101 @@ def split_csv_text(
     return records, starts, problems, bad, delimiter
 
 
+def _split_fast(
+    lines: list[str], first: int, delimiter: str, limits: Limits
+) -> tuple[list[list[str]], list[int]] | None:
+    """One csv.reader pass over the whole file; None when anything looks off.
+
+    Well-formed files (the usual case) split here at C speed. An unbalanced quote, an
+    oversized cell or a record spanning many lines sends the file to the careful
+    line-by-line path, which isolates the damage to one row.
+    """
+    body = lines[first:]
+    if max(map(len, body), default=0) > limits.max_field_chars:
+        return None
+    reader = csv.reader((line + "\n" for line in body), delimiter=delimiter, strict=True)
+    records: list[list[str]] = []
+    starts: list[int] = []
+    previous = 0
+    try:
+        for cells in reader:
+            now = reader.line_num
+            if now - previous > _MAX_RECORD_LINES:
+                return None
+            if cells:
+                if now - previous > 1 and sum(map(len, cells)) > limits.max_field_chars:
+                    return None
+                records.append(cells)
+                starts.append(first + previous + 1)
+            previous = now
+            if len(records) > limits.max_rows + 1:
+                return None
+    except csv.Error:
+        return None
+    return records, starts
+
+
+@dataclass(frozen=True)
+class _FastTable:
+    headers: tuple[str, ...]
+    columns: tuple[Column, ...]
+    lines: np.ndarray
+    header_line: int
+
+
+def _read_fast(text: str, path: str, limits: Limits) -> _FastTable | None:
+    """Columnar read with pyarrow for well-formed files; None sends the file to the careful path.
+
+    Taken only when every line is one record (no quoted line breaks), no line is blank or
+    oversized, the header is the first line and every row has the header's width: then
+    row i is physical line header_line + 1 + i exactly. Anything else (and any parse
+    error) falls back to ``split_csv_text``, which reports problems row by row.
+    """
+    lines = _physical_lines(text)
+    while lines and not lines[-1].strip():
+        lines.pop()
+    if len(lines) < 2 or not lines[0].strip() or _SEP_HINT.match(lines[0]):
+        return None
+    if max(map(len, lines)) > limits.max_field_chars or len(lines) > limits.max_rows + 1:
+        return None
+    if not all(lines[1:]):  # a blank line inside: let the careful path keep line numbers
+        return None
+    if any(line.count('"') % 2 for line in lines):  # cheap test for quoted line breaks
+        return None
+    delimiter = sniff_delimiter(lines)
+    try:
+        header_cells = next(csv.reader([lines[0]], delimiter=delimiter, strict=True))
+    except (csv.Error, StopIteration):
+        return None
+    blank = delimiter + " \t"
+    if any(not line.strip(blank) for line in lines):  # rows of bare delimiters are skipped
+        return None
+    width = len(header_cells)
+    if sum(1 for cell in header_cells if cell.strip()) < 2 or width > _MAX_COLUMNS:
+        return None
+    names = [f"c{i}" for i in range(width)]
+    try:
+        table = pacsv.read_csv(
+            io.BytesIO("\n".join(lines[1:]).encode("utf-8")),
+            read_options=pacsv.ReadOptions(column_names=names, block_size=1 << 22),
+            parse_options=pacsv.ParseOptions(
+                delimiter=delimiter, newlines_in_values=False, ignore_empty_lines=False
+            ),
+            convert_options=pacsv.ConvertOptions(
+                column_types=dict.fromkeys(names, pa.string()),
+                strings_can_be_null=False,
+                quoted_strings_can_be_null=False,
+            ),
+        )
+    except (pa.ArrowInvalid, pa.ArrowException, ValueError, OSError):
+        return None
+    if table.num_rows != len(lines) - 1:
+        return None
+    headers = tuple(cell.strip().lstrip("\ufeff") for cell in header_cells)
+    columns = tuple(table.column(i) for i in range(width))
+    return _FastTable(headers, columns, np.arange(2, len(lines) + 1, dtype=np.int64), 1)
+
+
 def _quick_cells(record: str, delimiter: str) -> list[str]:
     """Rough split for the size test only (quotes ignored; over-splitting is harmless)."""
     return record.split(delimiter)
@@ -187,6 +291,16 @@ def read_csv_table(path: str | Path, *, limits: Limits = DEFAULT_LIMITS) -> RawT
     if not data.strip():
         raise CatalogError(f"{shown}: empty file")
     decoded = decode_catalog_bytes(data, shown)
+    fast = _read_fast(decoded.text, shown, limits)
+    if fast is not None:
+        return RawTable(
+            path=shown,
+            headers=fast.headers,
+            columns=fast.columns,
+            lines=fast.lines,
+            problems=decoded.problems,
+            header_line=fast.header_line,
+        )
     records, starts, problems, bad, delimiter = split_csv_text(
         decoded.text, path=shown, limits=limits
     )
@@ -229,7 +343,7 @@ def read_csv_table(path: str | Path, *, limits: Limits = DEFAULT_LIMITS) -> RawT
             rows.append(("",) * width)
             lines.append(line)
             continue
-        if len(cells) > width and any(cell.strip() for cell in cells[width:]):
+        if len(cells) > width and "".join(cells[width:]).strip():
             extra = sum(1 for cell in cells[width:] if cell.strip())
             problems.append(
                 Problem(
@@ -250,10 +364,11 @@ def read_csv_table(path: str | Path, *, limits: Limits = DEFAULT_LIMITS) -> RawT
             cells = cells + [""] * (width - len(cells))
         elif len(cells) > width:
             cells = cells[:width]
-        if not any(cell.strip() for cell in cells):
+        if not "".join(cells).strip():
             continue  # a blank row (e.g. only delimiters) is not a part
-        oversized = [i for i, cell in enumerate(cells) if len(cell) > limits.max_field_chars]
-        if oversized:
+        if sum(map(len, cells)) > limits.max_field_chars and (
+            oversized := [i for i, cell in enumerate(cells) if len(cell) > limits.max_field_chars]
+        ):
             problems.append(
                 Problem(
                     shown,
@@ -273,7 +388,7 @@ def read_csv_table(path: str | Path, *, limits: Limits = DEFAULT_LIMITS) -> RawT
     return RawTable(
         path=shown,
         headers=headers,
-        rows=tuple(rows),
+        columns=columns_from_rows(rows, width),
         lines=tuple(lines),
         problems=tuple(problems),
         header_line=starts[header_at],

@@ -6,12 +6,25 @@ it without knowing the file format.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Final
+from typing import Final, TypeAlias
+
+import numpy as np
+import pandas as pd
+import pyarrow as pa
+import pyarrow.compute as pc
 
 from catalog.problems import Problem
 
-__all__ = ["DEFAULT_LIMITS", "Limits", "RawTable"]
+__all__ = [
+    "DEFAULT_LIMITS",
+    "Column",
+    "Limits",
+    "RawTable",
+    "columns_from_rows",
+    "factorize_cells",
+]
 
 
 @dataclass(frozen=True)
@@ -45,11 +58,15 @@ class Limits:
 DEFAULT_LIMITS: Final[Limits] = Limits()
 
 
+#: One column of cell texts: a list, a numpy object array or a pyarrow string array.
+Column: TypeAlias = Sequence[str] | np.ndarray | pa.ChunkedArray | pa.Array
+
+
 @dataclass(frozen=True)
 class RawTable:
-    """One file's table as text.
+    """One file's table as text, column by column.
 
-    ``rows`` are lists of cell strings in header order (shorter rows are padded with "");
+    ``columns[j]`` holds the cell texts of header ``j`` for every row ("" when absent);
     ``lines[i]`` is the 1-based line where row ``i`` starts; ``bad_rows`` holds row
     indices the reader already found unusable (reported in ``problems``), which
     validation drops. ``header_line`` is the line of the headers (None for YAML).
@@ -57,8 +74,32 @@ class RawTable:
 
     path: str
     headers: tuple[str, ...]
-    rows: tuple[tuple[str, ...], ...]
-    lines: tuple[int, ...]
+    columns: tuple[Column, ...]
+    lines: tuple[int, ...] | np.ndarray
     problems: tuple[Problem, ...]
     header_line: int | None
     bad_rows: frozenset[int] = frozenset()
+
+    @property
+    def row_count(self) -> int:
+        """Number of data rows (bad ones included)."""
+        return len(self.lines)
+
+
+def columns_from_rows(rows: Sequence[Sequence[str]], width: int) -> tuple[list[str], ...]:
+    """Transpose rows (already padded to ``width``) into columns."""
+    if not rows:
+        return tuple([] for _ in range(width))
+    return tuple(list(column) for column in zip(*rows, strict=True))
+
+
+def factorize_cells(column: Column) -> tuple[np.ndarray, list[str]]:
+    """Codes per row and the distinct texts, so each distinct text is parsed once."""
+    if isinstance(column, pa.ChunkedArray | pa.Array):
+        array = column.combine_chunks() if isinstance(column, pa.ChunkedArray) else column
+        encoded = pc.dictionary_encode(pc.fill_null(array.cast(pa.string()), ""))
+        codes = encoded.indices.to_numpy(zero_copy_only=False).astype(np.int64)
+        uniques = ["" if text is None else str(text) for text in encoded.dictionary.to_pylist()]
+        return codes, uniques
+    codes, found = pd.factorize(np.asarray(column, dtype=object), use_na_sentinel=False)
+    return np.asarray(codes, dtype=np.int64), [str(text) for text in found.tolist()]

@@ -21,7 +21,7 @@ import pandas as pd
 from catalog.headers import HeaderMap, closest_headers, missing_required
 from catalog.plausibility import plausibility_problems
 from catalog.problems import CatalogError, Problem, Severity
-from catalog.rawtable import RawTable
+from catalog.rawtable import Column, RawTable, factorize_cells
 from catalog.schema import (
     CUT_SYNONYMS,
     FIELDS,
@@ -105,7 +105,6 @@ _HC49: Final[re.Pattern[str]] = re.compile(r"^HC-?(\d+)(.*)$")
 #: (overtones, inverted-mesa fundamentals): common practice; anything outside is a mistake.
 _FREQUENCY_FLOOR_HZ: Final[float] = 1e3
 _FREQUENCY_CEILING_HZ: Final[float] = 1e9
-_MPN_SPACES: Final[re.Pattern[str]] = re.compile(r"\s+")
 
 
 @dataclass(frozen=True)
@@ -126,6 +125,9 @@ class _Outcome:
     extra: object = None
     message: str | None = None
     severity: Severity = "error"
+
+
+_NO_VALUE: Final[_Outcome] = _Outcome(None)
 
 
 def normalise_package(text: str) -> str:
@@ -304,7 +306,7 @@ def _text_outcome(spec: FieldSpec) -> Callable[[str], _Outcome]:
     def parse(text: str) -> _Outcome:
         stripped = text.strip()
         if spec.name == "mpn":
-            return _Outcome(_MPN_SPACES.sub(" ", stripped))
+            return _Outcome(" ".join(stripped.split()))
         if spec.name == "package":
             return _Outcome(normalise_package(stripped))
         if spec.name == "msl":
@@ -342,11 +344,14 @@ class _Column:
     raw: np.ndarray
 
 
-def _parse_column(cells: list[str], parse: Callable[[str], _Outcome]) -> _Column:
+def _parse_column(cells: Column, parse: Callable[[str], _Outcome]) -> _Column:
     """Parse each distinct text once and spread the results back over the rows."""
-    codes, uniques = pd.factorize(np.asarray(cells, dtype=object), use_na_sentinel=False)
-    outcomes = [_Outcome(None) if _is_missing(text) else parse(text) for text in uniques.tolist()]
-    missing_u = np.array([_is_missing(text) for text in uniques.tolist()], dtype=bool)
+    codes, uniques = factorize_cells(cells)
+    missing_u = np.array([_is_missing(text) for text in uniques], dtype=bool)
+    outcomes = [
+        _NO_VALUE if missing else parse(text)
+        for text, missing in zip(uniques, missing_u.tolist(), strict=True)
+    ]
     values_u = np.empty(len(outcomes), dtype=object)
     extra_u = np.empty(len(outcomes), dtype=object)
     message_u = np.empty(len(outcomes), dtype=object)
@@ -382,7 +387,7 @@ def validate_table(raw: RawTable, header_map: HeaderMap) -> ParsedTable:
     missing. Every problem carries file, line, field, raw text and message.
     """
     check_required_columns(raw, header_map)
-    count = len(raw.rows)
+    count = raw.row_count
     problems: list[Problem] = list(header_map.problems)
     lines = np.asarray(raw.lines, dtype=np.int64)
     dropped = np.zeros(count, dtype=bool)
@@ -391,12 +396,12 @@ def validate_table(raw: RawTable, header_map: HeaderMap) -> ParsedTable:
     # Every problem of a row is reported (fix them all in one pass), except on rows the
     # reader could not split at all.
     reader_bad = dropped.copy()
-    columns_text = list(zip(*raw.rows, strict=True)) if count else []
     parsed: dict[str, _Column] = {}
     for binding in header_map.bindings:
         spec = FIELDS_BY_NAME[binding.field]
-        cells = list(columns_text[binding.index]) if count else []
-        parsed_column = _parse_column(cells, _outcome_parser(spec, binding.unit))
+        parsed_column = _parse_column(
+            raw.columns[binding.index], _outcome_parser(spec, binding.unit)
+        )
         parsed[binding.field] = parsed_column
         flagged = np.nonzero(parsed_column.message.astype(bool) & ~reader_bad)[0]
         for position in flagged.tolist():
@@ -485,6 +490,8 @@ def validate_table(raw: RawTable, header_map: HeaderMap) -> ParsedTable:
             absent &= column.severity != "error"  # already reported as unreadable
         if spec.name == "stability":
             absent &= ~tuning_fork  # DESIGN §4: a tuning fork's drift comes from beta
+        if spec.name in ("temp_min", "temp_max") and range_column is not None:
+            absent &= range_column.severity != "error"  # the range's own error says it
         for position in np.nonzero(absent & ~reader_bad)[0].tolist():
             problems.append(
                 Problem(
