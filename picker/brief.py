@@ -20,7 +20,8 @@ Rules the parser keeps:
 - the budget comes from, in this order: an explicit ``budget``, the ``preset``'s budget,
   the CAN bit timing in the ``can`` block. An explicit budget therefore overrides the
   preset's (the preset still sets the clock role and, for 32.768 kHz presets, the
-  frequency when those are not given);
+  frequency when those are not given); an explicit budget equal to the preset's keeps
+  citing the preset's clause;
 - the amplifier is described in exactly one form (``gm``, a mapping of named ``gm``
   drive settings, ``gm_crit_max``, ``max_esr`` or ``negative_resistance``). When a data
   sheet gives several and the brief lists them all, ``amplifier.form`` must say which one
@@ -1319,18 +1320,19 @@ def _parse(data: object) -> Brief:
 def _budget(
     top: Mapping[str, object], preset: Preset | None, can: CanBitTiming | None
 ) -> tuple[float, str]:
+    derived = _derived_budget(preset, can)
     if top.get("budget") is not None:
         raw = top["budget"]
         budget = _quantity(raw, ("budget",), "ppm")
         _bounded(budget, ("budget",), raw, above=0.0)
         _bounded(budget, ("budget",), raw, below=1e6, why="a million ppm is the whole frequency")
+        # A budget written out that equals the preset's still cites the preset's clause
+        # (an editor that shows every field writes the preset's budget back).
+        if derived is not None and derived[0] == budget:
+            return derived
         return budget, "brief"
-    # Derived budgets are kept to 15 significant digits, as parsed values are, so that a
-    # brief written out in full reads back to the same number.
-    if preset is not None and preset.budget_ppm is not None:
-        return float(f"{preset.budget_ppm:.15g}"), preset.clause
-    if can is not None:
-        return float(f"{can.tolerance_ppm():.15g}"), can.describe()
+    if derived is not None:
+        return derived
     if preset is not None:
         raise _fail(
             ("can",),
@@ -1342,6 +1344,17 @@ def _budget(
         "missing; give the total error allowed, e.g. 'budget: 40 ppm', or a preset "
         f"({', '.join(preset_names())})",
     )
+
+
+def _derived_budget(preset: Preset | None, can: CanBitTiming | None) -> tuple[float, str] | None:
+    """The budget the preset or the CAN bit timing gives, with its source, or None."""
+    # Kept to 15 significant digits, as parsed values are, so that a brief written out in
+    # full reads back to the same number.
+    if preset is not None and preset.budget_ppm is not None:
+        return float(f"{preset.budget_ppm:.15g}"), preset.clause
+    if can is not None:
+        return float(f"{can.tolerance_ppm():.15g}"), can.describe()
+    return None
 
 
 def _implied_role(preset: Preset | None, can: CanBitTiming | None) -> str:
@@ -1541,7 +1554,8 @@ def brief_to_mapping(brief: Brief, *, include_defaults: bool = False) -> dict[st
 
     Values the brief file did not give (``brief.defaulted``) are left out when they still
     hold the value they were filled with, so a saved brief stays what the user wrote;
-    ``include_defaults=True`` writes every value (for an editor that shows all fields).
+    ``include_defaults=True`` writes every value (for an editor that shows all fields);
+    that mapping parses to the same brief apart from ``defaulted``.
     ``parse_brief(brief_to_mapping(b)) == b`` for every brief ``parse_brief`` returns.
     """
     reference = _reference_brief(brief)
