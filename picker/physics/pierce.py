@@ -224,7 +224,8 @@ def optimum_transconductance(
 
     Returns
     -------
-    gm_opt : optimum transconductance [S]; NaN where Re(Zc) has no negative minimum
+    gm_opt : optimum transconductance [S]; NaN where Re(Zc) has no negative minimum;
+        ``inf`` when nothing is across the crystal (C3 = G3 = 0)
 
     Notes
     -----
@@ -254,7 +255,8 @@ def max_negative_resistance(
 
     Returns
     -------
-    rneg_max : |Rneg|max [ohm], positive; 0 where the network never goes negative
+    rneg_max : |Rneg|max [ohm], positive; 0 where the network never goes negative; ``inf``
+        when nothing is across the crystal (C3 = G3 = 0), an idealisation with no ceiling
 
     Notes
     -----
@@ -298,6 +300,10 @@ def _optimum(
     negative = np.isfinite(re_min) & (re_min < 0.0)
     gm_opt = np.where(negative, gm_opt, np.nan)
     rneg_max = np.where(negative, -re_min, 0.0)
+    # nothing across the crystal (Y3 = 0): Re(Zc) = a1·gm/q0 falls without bound
+    unbounded = (k.q2 == 0.0) & (k.q1 == 0.0) & (k.a2 == 0.0) & (k.a1 < 0.0)
+    gm_opt = np.where(unbounded, np.inf, gm_opt)
+    rneg_max = np.where(unbounded, np.inf, rneg_max)
     return to_float(np.asarray(gm_opt)), to_float(np.asarray(rneg_max))
 
 

@@ -257,14 +257,14 @@ def simulated() -> dict[str, SweepResult]:
         )
         # motional arm alone (for fs)
         lines += [
-            f"Im{k} 0 m{k}a AC 1",
+            f"Im{k} 0 m{k}a DC 0 AC 1",
             f"Rm{k} m{k}a m{k}b {r1}",
             f"Lm{k} m{k}b m{k}c {l1}",
             f"Cm{k} m{k}c 0 {c1}",
         ]
         # the crystal: motional arm in parallel with C0
         lines += [
-            f"Ix{k} 0 x{k}a AC 1",
+            f"Ix{k} 0 x{k}a DC 0 AC 1",
             f"Rx{k} x{k}a x{k}b {r1}",
             f"Lx{k} x{k}b x{k}c {l1}",
             f"Cx{k} x{k}c 0 {c1}",
@@ -272,14 +272,14 @@ def simulated() -> dict[str, SweepResult]:
         ]
         # the lossless crystal (for the textbook fp)
         lines += [
-            f"Ip{k} 0 p{k}a AC 1",
+            f"Ip{k} 0 p{k}a DC 0 AC 1",
             f"Lp{k} p{k}a p{k}b {l1}",
             f"Cp{k} p{k}b 0 {c1}",
             f"C0p{k} p{k}a 0 {c0}",
         ]
         # the crystal in series with its load capacitor
         lines += [
-            f"Il{k} 0 l{k}a AC 1",
+            f"Il{k} 0 l{k}a DC 0 AC 1",
             f"CLl{k} l{k}a l{k}b {cl}",
             f"Rl{k} l{k}b l{k}c {r1}",
             f"Ll{k} l{k}c l{k}d {l1}",
