@@ -5,11 +5,12 @@ sure each demo circuit has several parts that fit and several that only just mis
 that a few reference parts have siblings that differ in exactly one way (the cases an
 alternates search must tell apart).
 
-Demo circuits covered (the budgets are the interface figures quoted in DESIGN.md §4):
-RTC at 32.768 kHz over -40…85 °C; a Bluetooth LE sleep clock at 32.768 kHz; a USB
-full-speed device at 12 or 24 MHz; an Ethernet PHY at 25 MHz, ±50 ppm all causes; a
-Bluetooth LE radio at 32 MHz, ±40 ppm over -40…85 °C and 10 years, in 2016 or 2520; a
-CAN node at 16 MHz.
+Demo circuits covered (the budgets are the interface figures quoted in DESIGN.md §4; the
+packages and ranges follow the demo briefs in ``demo_catalog/briefs``): an RTC and a
+Bluetooth LE sleep clock at 32.768 kHz over -40…85 °C in 3215 or 2012; a USB full-speed
+device at 24 MHz (and 12 MHz parts); an Ethernet PHY at 25 MHz, ±50 ppm all causes, in
+3225 or 2520; a Bluetooth LE radio at 32 MHz, ±40 ppm over -40…85 °C and 10 years, in
+2016, 2520 or 1612; a CAN node at 16 MHz over -40…105 °C in 3225 or 5032.
 """
 
 from __future__ import annotations
@@ -275,195 +276,82 @@ ALTERNATE_SPECS: tuple[Spec, ...] = (
 )
 
 # --- parts that fit each demo circuit, and near-misses ------------------------------------
+# fmt: off
 CIRCUIT_SPECS: tuple[Spec, ...] = (
-    # RTC and sleep clock, 32.768 kHz over -40…85 °C.
-    Spec(
-        "rtc_fit_3215",
-        "Tarnwell",
-        KHZ_32,
-        "3215",
-        12.5,
-        20.0,
-        None,
-        IND,
-        65e3,
-        beta=-0.034,
-        turnover=25.0,
-    ),
-    Spec(
-        "rtc_fit_1610",
-        "Quellbrook",
-        KHZ_32,
-        "1610",
-        6.0,
-        10.0,
-        None,
-        IND,
-        90e3,
-        drive_uw=0.5,
-        c1_ff=2.4,
-    ),
-    Spec(
-        "rtc_fit_2012_auto",
-        "Kelvaro",
-        KHZ_32,
-        "2012",
-        9.0,
-        20.0,
-        None,
-        AUTO,
-        70e3,
-        qualification="AEC-Q200",
-        beta=-0.04,
-        turnover=20.0,
-    ),
-    Spec(
-        "rtc_fit_2012_cl6",
-        "Oridane",
-        KHZ_32,
-        "2012",
-        6.0,
-        10.0,
-        None,
-        IND,
-        60e3,
-        beta=-0.035,
-        turnover=25.0,
-    ),
+    # RTC and sleep clock, 32.768 kHz over -40…85 °C, in 3215 or 2012.
+    Spec("rtc_fit_3215", "Tarnwell", KHZ_32, "3215", 7.0, 20.0, None, IND, 50e3,
+         beta=-0.034, turnover=25.0),
+    Spec("rtc_fit_2012_auto", "Kelvaro", KHZ_32, "2012", 9.0, 20.0, None, AUTO, 50e3,
+         qualification="AEC-Q200", beta=-0.04, turnover=20.0),
+    Spec("rtc_fit_2012_cl6", "Oridane", KHZ_32, "2012", 6.0, 10.0, None, IND, 60e3,
+         beta=-0.035, turnover=25.0),
+    Spec("rtc_miss_package_1610", "Quellbrook", KHZ_32, "1610", 6.0, 10.0, None, IND, 90e3,
+         drive_uw=0.5, c1_ff=2.4),
     Spec("rtc_miss_narrow_range", "Vessado", KHZ_32, "2012", 7.0, 20.0, None, COM, 70e3),
-    Spec("rtc_miss_32000_3215", "Tarnwell", 32000.0, "3215", 12.5, 20.0, None, IND, 65e3),
-    Spec(
-        "rtc_miss_obsolete",
-        "Oridane",
-        KHZ_32,
-        "3215",
-        12.5,
-        20.0,
-        None,
-        IND,
-        60e3,
-        lifecycle="obsolete",
-        stock=0.0,
-    ),
-    # USB full-speed device, 12 or 24 MHz.
+    Spec("rtc_miss_32000_3215", "Tarnwell", 32000.0, "3215", 7.0, 20.0, None, IND, 50e3),
+    # Large load and high ESR: the critical transconductance exceeds a low-power stage's.
+    Spec("rtc_miss_high_load_esr", "Quellbrook", KHZ_32, "3215", 12.5, 20.0, None, IND, 70e3),
+    Spec("rtc_miss_obsolete", "Oridane", KHZ_32, "3215", 7.0, 20.0, None, IND, 50e3,
+         lifecycle="obsolete", stock=0.0),
+    # USB full-speed device, 24 MHz (and 12 MHz parts for other chips).
     Spec("usb_fit_12_3225", "Quellbrook", 12 * MHZ, "3225", 10.0, 30.0, 30.0, IND, 80.0),
     Spec("usb_fit_24_2520", "Vessado", 24 * MHZ, "2520", 8.0, 20.0, 20.0, IND, 60.0),
     Spec("usb_fit_24_3225", "Oridane", 24 * MHZ, "3225", 12.0, 20.0, 30.0, IND, 50.0),
     Spec("usb_fit_12_hc49smd", "Kelvaro", 12 * MHZ, "HC-49/SMD", 18.0, 30.0, 30.0, IND, 50.0),
-    Spec("usb_fit_12_5032", "Tarnwell", 12 * MHZ, "5032", 20.0, 30.0, 50.0, IND, 60.0, pinout=""),
+    Spec("usb_fit_12_5032", "Tarnwell", 12 * MHZ, "5032", 20.0, 30.0, 50.0, IND, 60.0,
+         pinout=""),
     Spec("usb_miss_12288", "Quellbrook", 12.288 * MHZ, "3225", 10.0, 30.0, 30.0, IND, 80.0),
     Spec("usb_miss_24576", "Kelvaro", 24.576 * MHZ, "2520", 8.0, 20.0, 20.0, IND, 60.0),
-    Spec("usb_miss_narrow_range", "Oridane", 12 * MHZ, "3225", 12.0, 30.0, 30.0, COM, 80.0),
-    # Ethernet PHY, 25 MHz, ±50 ppm all causes.
-    Spec("ethernet_fit_2520", "Vessado", 25 * MHZ, "2520", 10.0, 15.0, 15.0, IND, 60.0, aging=2.0),
-    Spec("ethernet_fit_3225_cl18", "Oridane", 25 * MHZ, "3225", 18.0, 20.0, 15.0, IND, 50.0),
-    Spec(
-        "ethernet_fit_5032",
-        "Quellbrook",
-        25 * MHZ,
-        "5032",
-        16.0,
-        10.0,
-        20.0,
-        IND,
-        40.0,
-        aging=3.0,
-        pinout="",
-    ),
-    Spec(
-        "ethernet_fit_3225_cl10",
-        "Kelvaro",
-        25 * MHZ,
-        "3225",
-        10.0,
-        15.0,
-        20.0,
-        EXT,
-        50.0,
-        aging=1.0,
-    ),
-    Spec(
-        "ethernet_miss_sum_55", "Tarnwell", 25 * MHZ, "3225", 12.0, 20.0, 30.0, IND, 50.0, aging=3.0
-    ),
-    Spec(
-        "ethernet_miss_sum_60", "Oridane", 25 * MHZ, "2520", 10.0, 30.0, 30.0, IND, 60.0, aging=2.0
-    ),
-    Spec("ethernet_miss_narrow_range", "Quellbrook", 25 * MHZ, "3225", 12.0, 10.0, 10.0, COM, 50.0),
+    Spec("usb_miss_range_0_70", "Oridane", 24 * MHZ, "3225", 12.0, 30.0, 30.0, (0.0, 70.0),
+         50.0),
+    Spec("usb_miss_obsolete", "Tarnwell", 24 * MHZ, "3225", 10.0, 20.0, 30.0, COM, 50.0,
+         lifecycle="obsolete", stock=0.0),
+    # Ethernet PHY, 25 MHz, ±50 ppm all causes, in 3225 or 2520.
+    Spec("ethernet_fit_2520", "Vessado", 25 * MHZ, "2520", 10.0, 15.0, 15.0, IND, 60.0),
+    Spec("ethernet_fit_3225_cl10", "Oridane", 25 * MHZ, "3225", 10.0, 20.0, 15.0, IND, 50.0),
+    Spec("ethernet_fit_2520_cl8", "Quellbrook", 25 * MHZ, "2520", 8.0, 10.0, 20.0, IND, 50.0,
+         aging=3.0),
+    Spec("ethernet_fit_3225_ext", "Kelvaro", 25 * MHZ, "3225", 10.0, 15.0, 20.0, EXT, 50.0,
+         aging=1.0),
+    Spec("ethernet_miss_sum_55", "Tarnwell", 25 * MHZ, "3225", 12.0, 20.0, 30.0, IND, 50.0,
+         aging=3.0),
+    Spec("ethernet_miss_sum_64", "Oridane", 25 * MHZ, "2520", 10.0, 30.0, 30.0, IND, 60.0),
+    Spec("ethernet_miss_narrow_range", "Quellbrook", 25 * MHZ, "3225", 12.0, 10.0, 10.0, COM,
+         50.0),
+    Spec("ethernet_miss_package_5032", "Quellbrook", 25 * MHZ, "5032", 12.0, 10.0, 20.0, IND,
+         40.0, aging=3.0, pinout=""),
     Spec("ethernet_miss_26", "Kelvaro", 26 * MHZ, "3225", 12.0, 10.0, 10.0, IND, 50.0),
-    # Bluetooth LE radio, 32 MHz, ±40 ppm over -40…85 °C and 10 years, 2016 or 2520.
-    Spec(
-        "ble_fit_2016_cl6",
-        "Vessado",
-        32 * MHZ,
-        "2016",
-        6.0,
-        10.0,
-        15.0,
-        IND,
-        60.0,
-        aging=1.0,
-        drive_uw=100.0,
-    ),
-    Spec("ble_fit_2520_cl8", "Oridane", 32 * MHZ, "2520", 8.0, 10.0, 10.0, IND, 40.0, aging=2.0),
-    Spec("ble_fit_2520_cl10", "Tarnwell", 32 * MHZ, "2520", 10.0, 15.0, 15.0, IND, 40.0, aging=1.0),
-    Spec(
-        "ble_fit_2016_ext",
-        "Kelvaro",
-        32 * MHZ,
-        "2016",
-        7.0,
-        10.0,
-        10.0,
-        EXT,
-        50.0,
-        aging=1.0,
-        height_mm=0.45,
-    ),
-    Spec("ble_miss_sum_43", "Quellbrook", 32 * MHZ, "2016", 8.0, 20.0, 20.0, IND, 60.0, aging=2.0),
-    Spec(
-        "ble_miss_marginal_40", "Oridane", 32 * MHZ, "2520", 8.0, 15.0, 20.0, IND, 40.0, aging=3.0
-    ),
-    Spec(
-        "ble_miss_package_3225", "Vessado", 32 * MHZ, "3225", 8.0, 10.0, 10.0, IND, 40.0, aging=1.0
-    ),
-    Spec(
-        "ble_miss_package_1612", "Kelvaro", 32 * MHZ, "1612", 8.0, 10.0, 10.0, IND, 80.0, aging=1.0
-    ),
-    Spec(
-        "ble_miss_narrow_range", "Tarnwell", 32 * MHZ, "2016", 8.0, 10.0, 10.0, COM, 50.0, aging=1.0
-    ),
-    # CAN node, 16 MHz.
-    Spec("can_fit_3225_cl8", "Quellbrook", 16 * MHZ, "3225", 8.0, 20.0, 20.0, IND, 60.0),
-    Spec(
-        "can_fit_5032_auto",
-        "Oridane",
-        16 * MHZ,
-        "5032",
-        18.0,
-        30.0,
-        30.0,
-        AUTO,
-        50.0,
-        qualification="AEC-Q200",
-        pinout="",
-    ),
-    Spec("can_fit_2520_ext", "Vessado", 16 * MHZ, "2520", 10.0, 20.0, 30.0, EXT, 80.0),
-    Spec("can_fit_hc49smd", "Tarnwell", 16 * MHZ, "HC-49/SMD", 20.0, 30.0, 30.0, IND, 40.0),
-    Spec("can_miss_narrow_range", "Kelvaro", 16 * MHZ, "3225", 12.0, 20.0, 30.0, COM, 60.0),
+    # Bluetooth LE radio, 32 MHz, ±40 ppm over -40…85 °C and 10 years, 2016/2520/1612.
+    Spec("ble_fit_2016_cl6", "Vessado", 32 * MHZ, "2016", 6.0, 10.0, 15.0, IND, 60.0,
+         aging=1.0, drive_uw=100.0),
+    Spec("ble_fit_2520_cl8", "Oridane", 32 * MHZ, "2520", 8.0, 10.0, 10.0, IND, 40.0),
+    Spec("ble_fit_2520_cl10", "Tarnwell", 32 * MHZ, "2520", 10.0, 15.0, 15.0, IND, 40.0,
+         aging=1.0),
+    Spec("ble_fit_2016_ext", "Kelvaro", 32 * MHZ, "2016", 7.0, 10.0, 10.0, EXT, 50.0,
+         aging=1.0, height_mm=0.45),
+    Spec("ble_fit_1612", "Kelvaro", 32 * MHZ, "1612", 8.0, 10.0, 10.0, IND, 80.0, aging=1.0),
+    Spec("ble_miss_sum_43", "Quellbrook", 32 * MHZ, "2016", 8.0, 20.0, 20.0, IND, 60.0),
+    Spec("ble_miss_marginal_40", "Oridane", 32 * MHZ, "2520", 8.0, 15.0, 20.0, IND, 40.0,
+         aging=3.0),
+    Spec("ble_miss_package_3225", "Vessado", 32 * MHZ, "3225", 8.0, 10.0, 10.0, IND, 40.0,
+         aging=1.0),
+    Spec("ble_miss_package_5032", "Quellbrook", 32 * MHZ, "5032", 8.0, 10.0, 10.0, IND, 40.0,
+         aging=1.0),
+    Spec("ble_miss_narrow_range", "Tarnwell", 32 * MHZ, "2016", 8.0, 10.0, 10.0, COM, 50.0,
+         aging=1.0),
+    # CAN node, 16 MHz over -40…105 °C, in 3225 or 5032.
+    Spec("can_fit_3225_cl8", "Quellbrook", 16 * MHZ, "3225", 8.0, 20.0, 20.0, EXT, 60.0),
+    Spec("can_fit_5032_auto", "Oridane", 16 * MHZ, "5032", 18.0, 30.0, 30.0, AUTO, 50.0,
+         qualification="AEC-Q200", pinout=""),
+    Spec("can_fit_5032_ext", "Vessado", 16 * MHZ, "5032", 12.0, 20.0, 30.0, EXT, 50.0),
+    Spec("can_miss_package_2520", "Vessado", 16 * MHZ, "2520", 10.0, 20.0, 30.0, EXT, 80.0),
+    Spec("can_miss_package_hc49smd", "Tarnwell", 16 * MHZ, "HC-49/SMD", 20.0, 30.0, 30.0,
+         EXT, 40.0),
+    Spec("can_miss_range_85", "Kelvaro", 16 * MHZ, "3225", 12.0, 20.0, 30.0, IND, 60.0),
     Spec("can_miss_16384", "Quellbrook", 16.384 * MHZ, "3225", 12.0, 20.0, 30.0, AUTO, 60.0),
-    Spec(
-        "can_miss_nrnd_no_stock",
-        "Oridane",
-        16 * MHZ,
-        "3225",
-        12.0,
-        20.0,
-        30.0,
-        AUTO,
-        60.0,
-        lifecycle="nrnd",
-        stock=0.0,
-    ),
+    Spec("can_miss_nrnd_no_stock", "Oridane", 16 * MHZ, "3225", 12.0, 20.0, 30.0, AUTO, 60.0,
+         lifecycle="nrnd", stock=0.0),
 )
+# fmt: on
 
 CURATED_SPECS: tuple[Spec, ...] = ALTERNATE_SPECS + CIRCUIT_SPECS

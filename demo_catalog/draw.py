@@ -84,7 +84,7 @@ MSL_LEVELS = (("1", 0.93), ("2", 0.02), ("3", 0.03), ("", 0.02))
 # 2e4..2e5 for fundamentals; the ESR max sits above the typical R1, so Q here is lower).
 AT_Q_RANGE = (2.0e4, 1.2e5)
 OVERTONE_Q_RANGE = (2.0e4, 1.5e5)
-MISSING_MOTIONAL_SHARE = 0.10
+MISSING_MOTIONAL_SHARE = 0.105
 
 
 def choose(u: FloatArray, weights: Sequence[float]) -> IntArray:
@@ -335,7 +335,7 @@ def draw_part_table(rng: np.random.Generator, n: int, makers: Sequence[str]) -> 
             "temp_min_c": temp_min,
             "temp_max_c": temp_max,
             "esr_ohm": esr,
-            "package": pd.Categorical.from_codes(code, categories=list(PACKAGE_CODES)),
+            "package": pd.Categorical.from_codes(code, categories=pd.Index(list(PACKAGE_CODES))),
             "mode": pd.Categorical(mode),
             "cut": pd.Categorical(cut),
             "beta_ppm_per_c2": beta,

@@ -69,12 +69,15 @@ def _family_letter(parts: pd.DataFrame, letters: dict[str, str]) -> ObjectArray:
 def _load_code(parts: pd.DataFrame) -> ObjectArray:
     load = parts["load_capacitance_f"].to_numpy() * 1e12
     key = np.where(np.isnan(load), -1.0, np.rint(load * 10.0))
-    return lookup(
-        key,
-        lambda k: (
-            "SR" if float(k) < 0 else ("1H" if float(k) == 125.0 else f"{round(float(k) / 10):02d}")
-        ),
-    )
+    return lookup(key, _load_letters)
+
+
+def _load_letters(tenths_pf: object) -> str:
+    # Load capacitance in tenths of a pF; -1 marks a series-calibrated part.
+    value = float(str(tenths_pf))
+    if value < 0:
+        return "SR"
+    return "1H" if value == 125.0 else f"{round(value / 10):02d}"
 
 
 def _frequency_code(parts: pd.DataFrame) -> ObjectArray:

@@ -142,9 +142,8 @@ def _temperature_range(text: pd.DataFrame) -> Cells:
     width = len(high.table) + 1
     pair = np.where((low.codes < 0) | (high.codes < 0), -1, low.codes * width + high.codes)
     codes, uniques = factorize(pd.Series(pair).where(pair >= 0))
-    table = tuple(
-        f"{low.table[int(p) // width]} to {high.table[int(p) % width]} °C" for p in uniques
-    )
+    keys = np.asarray(uniques, dtype=np.float64).astype(np.int64).tolist()
+    table = tuple(f"{low.table[k // width]} to {high.table[k % width]} °C" for k in keys)
     return Cells(codes, table)
 
 
