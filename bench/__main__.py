@@ -19,37 +19,10 @@ import time
 from collections.abc import Sequence
 from pathlib import Path
 
+from bench.data import catalog_csv, catalog_files
 from bench.report import Row, format_table, ratio_row, target_row
 
-DATA = Path(__file__).resolve().parent / "_data"
-SEED = 1234
 PYTHON = sys.executable
-
-
-def generator_fingerprint() -> str:
-    """Short digest of the demo generator's source: a changed generator means new files."""
-    import hashlib
-
-    import demo_catalog
-
-    hasher = hashlib.blake2b(digest_size=4)
-    for source in sorted(Path(demo_catalog.__file__).parent.glob("*.py")):
-        hasher.update(source.read_bytes())
-    return hasher.hexdigest()
-
-
-def catalog_csv(rows: int, *, seed: int = SEED, folder: Path = DATA) -> Path:
-    """The synthetic catalog of ``rows`` parts (generated once, reused while unchanged)."""
-    from demo_catalog.generate import generate_parts, write_csv
-
-    folder.mkdir(parents=True, exist_ok=True)
-    stem = f"parts_{rows}_seed{seed}_"
-    path = folder / f"{stem}{generator_fingerprint()}.csv"
-    if not path.exists():
-        for old in folder.glob(f"{stem}*.csv"):
-            old.unlink()
-        write_csv(generate_parts(rows, seed), path)  # write_csv is atomic
-    return path
 
 
 def run_probe(name: str, csv: Path, cache: Path, **options: int) -> dict[str, float | str]:
@@ -125,8 +98,10 @@ def cli_figures(csv: Path, *, repeats: int) -> dict[str, float]:
         status = subprocess.run(picker, capture_output=True, text=True, check=False, env=env)
     finally:
         shutil.rmtree(cache, ignore_errors=True)
+    files = [str(f) for f in catalog_files(csv)]
     read_csv = wall_time(
-        [PYTHON, "-c", f"import pandas; pandas.read_csv({str(csv)!r})"], repeats=repeats
+        [PYTHON, "-c", f"import pandas; [pandas.read_csv(f) for f in {files!r}]"],
+        repeats=repeats,
     )
     import_pandas = wall_time([PYTHON, "-c", "import pandas"], repeats=repeats)
     figures = {
