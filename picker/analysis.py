@@ -310,6 +310,8 @@ def _choose_caps(
     # holds few distinct CL values: choose once per distinct target, then spread back.
     finite = np.where(np.isfinite(target), target, -1.0)
     distinct, back = np.unique(finite, return_inverse=True)
+    if distinct.size == 0:  # an empty part table
+        distinct = np.asarray([-1.0])
     chosen = capacitors.choose_unequal_pair(
         np.where(distinct > 0, distinct, np.nan), stray, pin, board.cap_series
     )

@@ -356,7 +356,7 @@ def _form_limit_text(row: pd.Series, brief: Brief) -> str:
     if form == "max_esr":
         return (
             f"ESR {_num(float(row['esr_ohm']))} Ω exceeds the {_num(float(row['max_esr_ohm']))} Ω "
-            f"the chip allows at CL {_cap(float(row['load_capacitance_f']))}"
+            f"the chip allows at CL {_cap(float(row['esr_table_cl_f']))}"
         )
     text = f"margin {_num(margin, 2)} < {_num(required, 2)} with this amplifier"
     if form == "gm_settings":
@@ -432,7 +432,7 @@ def _outside_table_text(row: pd.Series, brief: Brief) -> str:
     points = [] if table is None else [p * 1e12 for p in table.load_capacitance_f]
     span = f"{_num(min(points))}–{_num(max(points))} pF" if points else "no points"
     return (
-        f"CL {_cap(float(row['load_capacitance_f']))} is outside the chip's ESR table ({span}): "
+        f"CL {_cap(float(row['esr_table_cl_f']))} is outside the chip's ESR table ({span}): "
         "not extrapolated, review by hand"
     )
 
