@@ -64,20 +64,24 @@ BRIEF = {
 class FrozenCore:
     """Implements picker.tui.model.Core with fixed, hand-made figures."""
 
-    def __init__(self, parts: pd.DataFrame = PARTS, files: Sequence[Path] = ()) -> None:
+    def __init__(
+        self,
+        parts: pd.DataFrame = PARTS,
+        files: Sequence[Path] = (),
+        problems: tuple[str, ...] = (
+            "parts.csv:9: esr: expected a resistance such as '80 ohm', got 'abc'",
+        ),
+    ) -> None:
         self.parts = parts
         self.files = tuple(files)
+        self.problems = problems
 
     def load(
         self, paths: Sequence[Path], mapping: Path | None, progress: Progress | None
     ) -> Loaded:
         if progress is not None:
             progress(1.0)
-        return Loaded(
-            self.parts,
-            ("parts.csv:9: esr: expected a resistance such as '80 ohm', got 'abc'",),
-            tuple(paths) + self.files,
-        )
+        return Loaded(self.parts, self.problems, tuple(paths) + self.files)
 
     def read_brief(self, path: Path) -> dict[str, object]:
         import yaml
