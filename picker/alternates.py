@@ -295,6 +295,10 @@ def _freq_text(hz: float) -> str:
     return f"{hz / 1e3:.3f} kHz"
 
 
+def _ohm(value: float) -> str:
+    return f"{_g(value / 1e3)} kΩ" if abs(value) >= 1e3 else f"{_g(value)} Ω"
+
+
 def _pf(value: float) -> str:
     return f"{_g(value * 1e12)} pF"
 
@@ -445,11 +449,11 @@ def _spec_notes(
         notes.append(f"MSL {m_alt or 'not stated'} vs {m_ref}")
     esr_r, esr_a = _f(ref.get("esr_ohm")), _f(alt.get("esr_ohm"))
     if abs(esr_a - esr_r) > 1e-9:
-        text = f"ESR {_g(esr_a)} Ω vs {_g(esr_r)} Ω: {'worse' if esr_a > esr_r else 'better'}"
+        text = f"ESR {_ohm(esr_a)} vs {_ohm(esr_r)}: {'worse' if esr_a > esr_r else 'better'}"
         if alt_analysis is not None and ref_analysis is not None:
             m_a, m_r = _f(alt_analysis["form_margin"]), _f(ref_analysis["form_margin"])
             label = "margin" if str(alt_analysis["amplifier_form"]) != "gm_crit_max" else "gain"
-            text = f"ESR {_g(esr_a)} Ω vs {_g(esr_r)} Ω: {label} {_g(m_a, 2)} instead of " + (
+            text = f"ESR {_ohm(esr_a)} vs {_ohm(esr_r)}: {label} {_g(m_a, 2)} instead of " + (
                 f"{_g(m_r, 2)} in this circuit"
             )
         notes.append(text)
