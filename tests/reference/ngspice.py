@@ -172,3 +172,55 @@ def extremum(
     a, b, c = np.polyfit(u, y[i - 1 : i + 2], 2)
     u_star = -b / (2 * a)
     return float(x[i] + u_star), float(c - b * b / (4 * a))
+
+
+def run_transient(
+    elements: str, step: float, stop: float, vectors: Sequence[str]
+) -> tuple[npt.NDArray[np.float64], dict[str, npt.NDArray[np.float64]]]:
+    """Run a transient analysis from the given initial conditions (``uic``).
+
+    Parameters
+    ----------
+    elements : netlist body; initial conditions as ``ic=`` on L and C lines
+    step : print and maximum time step [s]
+    stop : end time [s]
+    vectors : ngspice vector expressions to record, e.g. ``i(L1)`` or ``v(g)``
+
+    Returns
+    -------
+    t : time points [s]
+    values : vector expression -> samples
+    """
+    executable = require_ngspice()
+    with tempfile.TemporaryDirectory(prefix="picker-ngspice-") as tmp:
+        directory = Path(tmp)
+        data_path = directory / "transient.txt"
+        control = [
+            "option numdgt=15",
+            f"tran {spice_number(step)} {spice_number(stop)} 0 {spice_number(step)} uic",
+            f"wrdata {data_path} {' '.join(vectors)}",
+        ]
+        netlist_path = directory / "circuit.cir"
+        netlist_path.write_text(
+            "\n".join(
+                ["* picker transient", elements.strip(), ".control", *control, ".endc", ".end"]
+            )
+            + "\n",
+            encoding="ascii",
+        )
+        completed = subprocess.run(
+            [executable, "-b", str(netlist_path)],
+            capture_output=True,
+            text=True,
+            timeout=TIMEOUT_S,
+            check=False,
+            cwd=directory,
+        )
+        if not data_path.is_file():
+            raise RuntimeError(
+                f"ngspice wrote no transient data (exit {completed.returncode}):\n"
+                f"{completed.stdout[-2000:]}\n{completed.stderr[-2000:]}"
+            )
+        # without wr_singlescale each vector is written as a (time, value) column pair
+        table = np.loadtxt(data_path, ndmin=2)
+        return table[:, 0], {name: table[:, 2 * i + 1] for i, name in enumerate(vectors)}
