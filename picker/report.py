@@ -311,7 +311,7 @@ def ranking_table(ranking: Ranking, frame: pd.DataFrame, *, total_shown: str = "
     lines += [
         "",
         "margin: the figure ranked on; bar half full at the required minimum, full at 4x.",
-        "error/budget: worst-case total and budget in ppm; bar = share of the budget used.",
+        "error/budget: worst-case total and budget in ppm; bar = share of budget used.",
         "CL: the part's specified load in pF (ser = series resonance); ESR in Ω.",
     ]
     return "\n".join(line.rstrip() for line in lines) + "\n"
