@@ -32,6 +32,7 @@ from __future__ import annotations
 
 import itertools
 import math
+import unicodedata
 from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass, field, fields
 from importlib import resources
@@ -612,10 +613,17 @@ def _capacitance(value: object, path: Path_, *, allow_zero: bool = False) -> flo
 def _text_value(value: object, path: Path_, what: str) -> str:
     if isinstance(value, bool) or not isinstance(value, str | int | float):
         raise _fail(path, f"expected {what}, got {_describe_type(value)} '{_shown(value)}'")
-    text = str(value).strip()
+    text = _clean_text(str(value))
     if not text:
         raise _fail(path, f"expected {what}, got an empty text")
     return text
+
+
+def _clean_text(text: str) -> str:
+    """Free text for the screen: control and format characters become spaces (a name must
+    not carry terminal escape codes), runs of white space one space."""
+    kept = "".join(" " if unicodedata.category(char).startswith("C") else char for char in text)
+    return " ".join(kept.split())
 
 
 def _choice(value: object, path: Path_, choices: Sequence[str], what: str) -> str:
@@ -739,10 +747,13 @@ def _gm_settings(data: Mapping[str, object], path: Path_) -> tuple[tuple[str, fl
         raise _fail(path, "no drive settings; give e.g. {low: 0.5 mA/V, high: 2.5 mA/V}")
     settings = []
     for name, raw in data.items():
-        gm = _quantity(raw, (*path, str(name)), "transconductance")
-        _bounded(gm, (*path, str(name)), raw, above=0.0)
-        _bounded(gm, (*path, str(name)), raw, below=1.0, why="1 A/V is beyond any oscillator")
-        settings.append((str(name), gm))
+        label = _text_value(name, (*path, str(name)), "a setting name")
+        gm = _quantity(raw, (*path, label), "transconductance")
+        _bounded(gm, (*path, label), raw, above=0.0)
+        _bounded(gm, (*path, label), raw, below=1.0, why="1 A/V is beyond any oscillator")
+        settings.append((label, gm))
+    if len({label for label, _ in settings}) != len(settings):
+        raise _fail(path, "two drive settings have the same name")
     return tuple(sorted(settings, key=lambda item: item[1]))
 
 
@@ -870,7 +881,10 @@ def _internal_caps(value: object, path: Path_) -> InternalCaps:
         if not codes_data:
             raise _fail((*path, "codes"), "no codes")
         codes = [
-            (str(code), _capacitance(raw, (*path, "codes", str(code)), allow_zero=True))
+            (
+                _text_value(code, (*path, "codes", str(code)), "a register code"),
+                _capacitance(raw, (*path, "codes", str(code)), allow_zero=True),
+            )
             for code, raw in codes_data.items()
         ]
         return InternalCaps(applies_to=applies_to, codes=tuple(sorted(codes, key=lambda c: c[1])))
@@ -936,7 +950,7 @@ def _amplifier(value: object, path: Path_, defaulted: list[str]) -> Amplifier:
     form = _amplifier_form(data, path, given)
 
     def optional(key: str, default: float, parse: Callable[[object, Path_], float]) -> float:
-        if key not in data:
+        if data.get(key) is None:
             defaulted.append(_key_text((*path, key)))
             return default
         return parse(data[key], (*path, key))

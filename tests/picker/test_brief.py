@@ -147,6 +147,26 @@ def test_defaults_are_the_documented_ones() -> None:
     assert "frequency" not in brief.defaulted
 
 
+def test_null_means_default() -> None:
+    # An editor that clears a field writes null: the stated default applies, as if absent.
+    brief = parse_brief(
+        minimal(amplifier={"gm": "9 mA/V", "swing": None}, board={"stray_capacitance": None})
+    )
+    assert brief.amplifier.swing_v == 1.0
+    assert brief.board.stray_capacitance_f == 2e-12
+    assert "amplifier.swing" in brief.defaulted
+    assert error_of(minimal(amplifier={"gm": None})) == (
+        "amplifier.gm: expected a transconductance such as '9 mA/V', got nothing"
+    )
+
+
+def test_free_text_loses_control_characters() -> None:
+    # A terminal escape in a name must not reach the screen.
+    brief = parse_brief(minimal(name="Beacon\x1b[31m  radio\n", limits={"packages": ["32\t25"]}))
+    assert brief.name == "Beacon [31m radio"
+    assert brief.limits.packages == ("3225",)
+
+
 def test_given_values_are_not_marked_default() -> None:
     brief = parse_brief(minimal(board={"stray_capacitance": "3 pF"}))
     assert "board.stray_capacitance" not in brief.defaulted
@@ -951,7 +971,9 @@ def _brief_mapping(draw: st.DrawFn) -> dict[str, Any]:
     if (preset is None and "can" not in data) or draw(st.booleans()):
         data["budget"] = _text(draw(st.floats(0.01, 50_000)), "ppm")
     if draw(st.booleans()):
-        data["name"] = draw(st.text(min_size=1, max_size=20).filter(lambda s: s.strip()))
+        data["name"] = draw(
+            st.text(min_size=1, max_size=20).filter(lambda s: any(c.isalnum() for c in s))
+        )
     if draw(st.booleans()):
         low = draw(st.floats(-100, 100))
         data["temperature"] = [_text(low, "°C"), _text(low + draw(st.floats(0, 150)), "°C")]
