@@ -79,8 +79,12 @@ class HeaderMapping:
     entries: Mapping[str, MappingEntry]
 
     def lookup(self, header: str) -> MappingEntry | None:
-        """The entry for a raw header (compared folded), or None."""
-        return self.entries.get(normalise_header(header))
+        """The entry for a raw header (compared folded, then without its bracket unit)."""
+        entry = self.entries.get(normalise_header(header))
+        if entry is None:
+            name, _ = split_header_unit(header)
+            entry = self.entries.get(normalise_header(name))
+        return entry
 
 
 @dataclass(frozen=True)
@@ -171,9 +175,11 @@ def _match_name(header: str) -> tuple[str | None, str | None, str | None]:
             if candidate is not None and unit_fits(word, FIELDS_BY_NAME[candidate]):
                 return candidate, word, None
         return None, None, None
-    if unit is None:
-        return field, None, None
     spec = FIELDS_BY_NAME[field]
+    if unit is None:
+        if spec.column != spec.name and normalise_header(name) == normalise_header(spec.column):
+            return field, spec.unit or None, None  # our own column name ("c0_f") carries it
+        return field, None, None
     if spec.dimension is None:
         return field, None, None  # "(MPN)" after a text field says nothing about numbers
     if unit_fits(unit, spec):

@@ -386,7 +386,10 @@ def validate_table(raw: RawTable, header_map: HeaderMap) -> ParsedTable:
     Raises CatalogError (via ``check_required_columns``) when a required column is
     missing. Every problem carries file, line, field, raw text and message.
     """
-    check_required_columns(raw, header_map)
+    if raw.header_line is not None:
+        # A CSV without a required column is unusable; in YAML each part names its own
+        # fields, so a field no part has is reported part by part below.
+        check_required_columns(raw, header_map)
     count = raw.row_count
     problems: list[Problem] = list(header_map.problems)
     lines = np.asarray(raw.lines, dtype=np.int64)

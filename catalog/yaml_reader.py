@@ -183,13 +183,13 @@ def read_yaml_table(path: str | Path, *, limits: Limits = DEFAULT_LIMITS) -> Raw
         line = item.start_mark.line + 1
         record: dict[str, str] = {}
         try:
-            if not isinstance(item, yaml.MappingNode):
-                raise _Refused("each part must be a mapping of field: value")
             if item.tag not in _SAFE_TAGS:
                 raise _Refused(
                     f"YAML tag '{_tag(item.tag)}' is not allowed in a catalog; "
                     "nothing was constructed"
                 )
+            if not isinstance(item, yaml.MappingNode):
+                raise _Refused("each part must be a mapping of field: value")
             for key, value in _pairs(item, budget, 2):
                 record[key] = _text_of_value(value)
         except _Refused as refused:
