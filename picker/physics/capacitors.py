@@ -78,13 +78,14 @@ def standard_values(
 
     Notes
     -----
-    Values are significand × 10^k pF (IEC 60063:2015, Table 1), rounded to remove binary
-    noise so that 22 pF is exactly 22e-12.
+    Values are significand × 10^k pF (IEC 60063:2015, Table 1), with no binary noise:
+    22 pF is the float ``22e-12``.
     """
     significands = np.asarray(series_significands(series))
     decades = np.arange(-1, 4)
     values_pf = np.round((significands[None, :] * 10.0 ** decades[:, None]).ravel(), 6)
-    values = np.unique(values_pf) * 1e-12
+    # through decimal text, so 22 pF is the double nearest to 22e-12, as a user would type it
+    values = np.asarray([float(f"{v:.6g}e-12") for v in np.unique(values_pf)])
     keep = (values >= low_f * (1 - 1e-9)) & (values <= high_f * (1 + 1e-9))
     return np.asarray(values[keep], dtype=np.float64)
 
