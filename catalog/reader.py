@@ -264,10 +264,8 @@ def load_catalogs_with_status(
         try:
             parsed = parse_catalog_file(path, mapping=header_mapping, limits=limits)
         except CatalogError as error:
-            message = str(error)
-            prefix = f"{path}:"
-            text = message.removeprefix(prefix).lstrip() if message.startswith(prefix) else message
-            problems.append(Problem(str(path), None, None, None, text, "error"))
+            line, text = _split_location(str(error), str(path))
+            problems.append(Problem(str(path), line, None, None, text, "error"))
             unusable.append(str(path))
             reports.append(FileReport(str(path), 0, 0))
         else:
@@ -295,6 +293,17 @@ def load_catalogs_with_status(
     if progress is not None:
         progress(1.0)
     return LoadOutcome(result, tuple(unusable))
+
+
+def _split_location(message: str, path: str) -> tuple[int | None, str]:
+    """'parts.csv:14: text' -> (14, 'text'); 'parts.csv: text' -> (None, 'text')."""
+    if not message.startswith(path + ":"):
+        return None, message
+    rest = message[len(path) + 1 :]
+    head, separator, tail = rest.partition(":")
+    if separator and head.strip().isdigit():
+        return int(head), tail.strip()
+    return None, rest.strip()
 
 
 def _size(path: Path) -> int:
@@ -339,8 +348,9 @@ def load_catalogs(
     result = outcome.result
     unusable = set(outcome.unusable)
     if not any(report.path not in unusable for report in result.files):
-        first = next(p for p in result.problems if p.line is None and p.severity == "error")
+        first = next(p for p in result.problems if p.path in unusable and p.severity == "error")
         others = len(unusable) - 1
         more = f" (and {others} more unusable input(s))" if others else ""
-        raise CatalogError(f"{first.path}: {first.message}{more}")
+        where = first.path if first.line is None else f"{first.path}:{first.line}"
+        raise CatalogError(f"{where}: {first.message}{more}")
     return result
