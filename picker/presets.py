@@ -225,7 +225,7 @@ class CanBitTiming:
             raise PresetError(
                 f"sjw: {self.sjw} tq is longer than a phase segment "
                 f"(phase_seg1 {self.phase_seg1}, phase_seg2 {self.phase_seg2}); "
-                "the jump width may not exceed either phase segment (ISO 11898-1, from memory)"
+                "the jump width may not exceed the shorter phase segment (CAN bit timing rules)"
             )
 
     @property
@@ -288,10 +288,11 @@ def can_tolerance_conditions(
     2. df ≤ SJW / (20·NBT) — over the 10 bits between two recessive-to-dominant edges
        the phase error must be correctable by one resynchronisation.
 
-    References: Bosch, "CAN Specification 2.0", 1991, and ISO 11898-1 (bit timing,
-    oscillator tolerance); F. Hartwich and A. Bassemir, "The Configuration of the CAN
-    Bit Timing", 6th International CAN Conference, 1999. The exact form above is written
-    from memory of those texts.
+    References: F. Hartwich and A. Bassemir (Robert Bosch GmbH), "The Configuration of
+    the CAN Bit Timing", 6th International CAN Conference, Turin, 1999, which states both
+    conditions in this form and gives Prop_Seg = 1, Phase_Seg1 = Phase_Seg2 = SJW = 4 as
+    a 1.58 % example; Bosch, "CAN Specification 2.0", 1991, and ISO 11898-1 define the
+    bit time and resynchronisation the conditions rest on.
     """
     ps1 = np.asarray(phase_seg1, dtype=np.float64)
     ps2 = np.asarray(phase_seg2, dtype=np.float64)

@@ -649,7 +649,7 @@ def test_can_block_with_prop_seg_only() -> None:
         (
             minimal(can={"bit_time_quanta": 16, "phase_seg1": 7, "phase_seg2": 4, "sjw": 6}),
             "can: sjw: 6 tq is longer than a phase segment (phase_seg1 7, phase_seg2 4); the "
-            "jump width may not exceed either phase segment (ISO 11898-1, from memory)",
+            "jump width may not exceed the shorter phase segment (CAN bit timing rules)",
         ),
     ],
 )

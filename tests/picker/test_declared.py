@@ -125,3 +125,14 @@ def test_declared_vectorised() -> None:
     figures = declared_figures(np.array([15.0, 45.0]), "ble_sleep")
     np.testing.assert_array_equal(figures.sleep_clock_accuracy_ppm, [20.0, 50.0])
     np.testing.assert_array_equal(figures.worst_case_ppm, [15.0, 45.0])
+
+
+def test_docstring_examples() -> None:
+    # The examples in the module's docstrings are part of its documentation; keep them true.
+    import doctest
+
+    import picker.declared
+
+    result = doctest.testmod(picker.declared)
+    assert result.attempted >= 3
+    assert result.failed == 0

@@ -97,7 +97,8 @@ def test_preset_table_rows() -> None:
 
 
 # --- CAN -------------------------------------------------------------------------------
-# Conditions (Bosch CAN 2.0 / ISO 11898-1; Hartwich & Bassemir 1999; form from memory):
+# Conditions as stated by Hartwich & Bassemir, "The Configuration of the CAN Bit Timing",
+# Bosch, 6th International CAN Conference 1999 (df = each node's relative tolerance):
 #   (1) df <= min(PS1, PS2) / (2·(13·NBT − PS2))
 #   (2) df <= SJW / (20·NBT)
 
@@ -113,10 +114,9 @@ def test_can_worked_example_16_tq() -> None:
     assert can_tolerance_ppm(7, 4, 4, 16) == pytest.approx(9803.921568627, rel=1e-12)
 
 
-def test_can_largest_classical_tolerance() -> None:
-    # NBT 10 tq: prop 1, PS1 = PS2 = SJW = 4. (1) 4 / (2·(130 − 4)) = 4/252 = 1.587 %;
-    # (2) 4/200 = 2 %. Result 1.587 %, the often-quoted largest oscillator tolerance of
-    # classical CAN, "1.58 %" (from memory of Bosch application notes).
+def test_can_published_example() -> None:
+    # Hartwich & Bassemir 1999: Prop_Seg 1, PS1 = PS2 = SJW = 4 (NBT 10 tq) allows
+    # 1.58 %. By hand: (1) 4 / (2·(130 − 4)) = 4/252 = 1.587 %; (2) 4/200 = 2 %.
     assert can_tolerance_ppm(4, 4, 4, 10) == pytest.approx(1e6 * 4 / 252, rel=1e-12)
     assert 15800 < can_tolerance_ppm(4, 4, 4, 10) < 15900
 
@@ -161,3 +161,14 @@ def test_can_bit_timing_dataclass() -> None:
 def test_can_bit_timing_rejects_impossible(kwargs: dict[str, int], message: str) -> None:
     with pytest.raises(PresetError, match=message):
         CanBitTiming(**kwargs)
+
+
+def test_docstring_examples() -> None:
+    # The examples in the module's docstrings are part of its documentation; keep them true.
+    import doctest
+
+    import picker.presets
+
+    result = doctest.testmod(picker.presets)
+    assert result.attempted >= 1
+    assert result.failed == 0
