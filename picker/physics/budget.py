@@ -67,6 +67,11 @@ def frequency_error_budget(
         )
     )
     stacked = np.stack([tolerance, temperature, aging, pulling, spread])
+    # RSS scaled by the largest term so tiny terms neither underflow nor overflow
+    largest = stacked.max(axis=0)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        scaled = np.where(largest > 0.0, stacked / np.where(largest > 0.0, largest, 1.0), 0.0)
+    rss = largest * np.sqrt((scaled**2).sum(axis=0))
     return ErrorBudget(
         tolerance_ppm=to_float(tolerance),
         temperature_ppm=to_float(temperature),
@@ -74,7 +79,7 @@ def frequency_error_budget(
         pulling_ppm=to_float(pulling),
         spread_ppm=to_float(spread),
         total_ppm=to_float(stacked.sum(axis=0)),
-        rss_ppm=to_float(np.sqrt((stacked**2).sum(axis=0))),
+        rss_ppm=to_float(rss),
     )
 
 
