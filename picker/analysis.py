@@ -14,7 +14,7 @@ an estimate from data-sheet values.
 
 from __future__ import annotations
 
-from typing import Any
+from typing import Any, Literal, cast
 
 import numpy as np
 import pandas as pd
@@ -23,6 +23,8 @@ from picker.brief import Brief
 from picker.physics import aging as aging_law
 from picker.physics import budget as error_budget
 from picker.physics import capacitors, crystal, drive, estimates, pierce, startup, temperature
+
+CapSeries = Literal["E6", "E12", "E24"]
 
 #: JSON name of each provenance flag column (``<name>_estimated``) in the analysis frame.
 ESTIMATED_FIELDS: tuple[str, ...] = ("c0", "c1", "cut", "drive_level", "aging")
@@ -93,9 +95,16 @@ def _factor(parts: pd.DataFrame, name: str) -> tuple[np.ndarray, np.ndarray]:
     return np.where(codes < 0, labels.size - 1, codes), labels
 
 
-def _constant(n: int, text: str) -> pd.Categorical:
+def _given(value: float | None, name: str) -> float:
+    """A brief figure the amplifier form requires (the brief validates its presence)."""
+    if value is None:
+        raise ValueError(f"amplifier.{name}: required by this amplifier form")
+    return float(value)
+
+
+def _constant(n: int, text: str) -> Any:
     """A text column holding one value (categorical: no million Python strings)."""
-    return pd.Categorical.from_codes(np.zeros(n, dtype=np.int8), categories=[text])
+    return pd.Categorical.from_codes(np.zeros(n, dtype=np.int8), categories=pd.Index([text]))
 
 
 def _labelled(codes: np.ndarray, labels: np.ndarray) -> pd.Categorical:
@@ -253,9 +262,7 @@ def _typical_values(parts: pd.DataFrame, f_nom: np.ndarray) -> dict[str, np.ndar
     }
 
 
-def _choose_caps(
-    cl_spec: np.ndarray, series: np.ndarray, brief: Brief, n: int
-) -> dict[str, np.ndarray]:
+def _choose_caps(cl_spec: np.ndarray, series: np.ndarray, brief: Brief, n: int) -> dict[str, Any]:
     """Load capacitors per part: the brief's fixed pair, the chip's internal code, or E-series.
 
     Returns arrays ``cap_a_f``/``cap_b_f`` (the capacitance at each pin excluding the pin's
@@ -313,7 +320,7 @@ def _choose_caps(
     if distinct.size == 0:  # an empty part table
         distinct = np.asarray([-1.0])
     chosen = capacitors.choose_unequal_pair(
-        np.where(distinct > 0, distinct, np.nan), stray, pin, board.cap_series
+        np.where(distinct > 0, distinct, np.nan), stray, pin, cast(CapSeries, board.cap_series)
     )
     cap_a = np.asarray(chosen.cap_a_f, dtype=float).reshape(-1)[back]
     cap_b = np.asarray(chosen.cap_b_f, dtype=float).reshape(-1)[back]
@@ -366,14 +373,16 @@ def _amplifier_figures(
     rneg_max = pierce.max_negative_resistance(omega, cg, cd, c3, 0.0, g2, g3)
     gm_crit = pierce.critical_transconductance(omega, r1, cg, cd, c3, 0.0, g2, g3)
     gm_opt = pierce.optimum_transconductance(omega, cg, cd, c3)
-    setting = pd.Categorical.from_codes(np.full(n, -1, dtype=np.int8), categories=[])
+    setting = pd.Categorical.from_codes(
+        np.full(n, -1, dtype=np.int8), categories=pd.Index([], dtype=object)
+    )
     outside = np.zeros(n, dtype=bool)
     max_esr = nan
     lookup_cl = np.where(np.isnan(cl_spec), cl_board, cl_spec)
 
     if form in ("gm", "gm_settings", "negative_resistance"):
         if form == "gm":
-            gm = np.full(n, float(amp.gm_s))
+            gm = np.full(n, _given(amp.gm_s, "gm"))
         elif form == "gm_settings":
             gm, setting = _lowest_setting(brief, omega, r1, cg, cd, c3, g2, g3)
         else:
@@ -384,7 +393,7 @@ def _amplifier_figures(
         form_margin = margin
     elif form == "gm_crit_max":
         gm, rneg, margin = nan, nan, nan
-        gain = float(amp.gm_crit_max_s) / gm_crit
+        gain = _given(amp.gm_crit_max_s, "gm_crit_max") / gm_crit
         form_margin = gain
         required = np.ones(n)
     elif form == "max_esr":
@@ -422,7 +431,7 @@ def _lowest_setting(
     c3: np.ndarray,
     g2: float,
     g3: float,
-) -> tuple[np.ndarray, pd.Categorical]:
+) -> tuple[np.ndarray, Any]:
     """Per part, the lowest named drive setting whose margin meets the minimum.
 
     Settings are ascending by gm, so the first one that meets the margin draws the least
@@ -439,7 +448,7 @@ def _lowest_setting(
         chosen_gm = np.where(meets, gm_value, chosen_gm)
         chosen = np.where(meets, index, chosen).astype(np.int8)
     names = [name for name, _ in settings]
-    return chosen_gm, pd.Categorical.from_codes(chosen, categories=names)
+    return chosen_gm, pd.Categorical.from_codes(chosen, categories=pd.Index(names))
 
 
 def _equivalent_gm(
@@ -453,8 +462,8 @@ def _equivalent_gm(
     |Rneg|max of that configuration is not reachable; gm_opt (the ceiling) is used then.
     """
     amp, board = brief.amplifier, brief.board
-    stated = abs(float(amp.negative_resistance_ohm))
-    cl = float(amp.negative_resistance_cl_f)
+    stated = abs(_given(amp.negative_resistance_ohm, "negative_resistance"))
+    cl = _given(amp.negative_resistance_cl_f, "negative_resistance")
     pin, stray = amp.pin_capacitance_f, board.stray_capacitance_f
     each = 2.0 * (cl - stray)  # gate and drain node capacitance, pins included
     cg = np.full(omega.size, each)

@@ -15,6 +15,7 @@ Score
 
 from __future__ import annotations
 
+import math
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from functools import cached_property
@@ -137,7 +138,7 @@ def rank_analysis(analysis: pd.DataFrame, brief: Brief) -> Ranking:
     score = sum(weights[name] * components[name] for name in SCORE_COMPONENTS) / total_weight
     score = np.round(score, 12)
     columns: dict[str, Any] = {
-        "status": pd.Categorical.from_codes(status_code, categories=list(STATUSES)),
+        "status": pd.Categorical.from_codes(status_code, categories=pd.Index(list(STATUSES))),
         "score": score,
         "fail_mask": fail,
         "marginal_mask": near,
@@ -351,7 +352,7 @@ def _form_limit_text(row: pd.Series, brief: Brief) -> str:
     if form == "gm_crit_max":
         return (
             f"gm_crit {_gm(float(row['gm_critical_s']))} exceeds the chip's maximum "
-            f"{_gm(float(brief.amplifier.gm_crit_max_s))}"
+            f"{_gm(float(brief.amplifier.gm_crit_max_s or math.nan))}"
         )
     if form == "max_esr":
         return (
@@ -394,7 +395,7 @@ _RULE_TEXT: dict[str, Callable[[pd.Series, Brief], str]] = {
     ),
     "temperature_range": _temperature_text,
     "package": lambda r, b: (
-        f"package {r['package']} is not allowed ({', '.join(map(str, b.limits.packages))})"
+        f"package {r['package']} is not allowed ({', '.join(map(str, b.limits.packages or ()))})"
     ),
     "caps": _caps_text,
     "margin": _form_limit_text,
@@ -408,10 +409,13 @@ _RULE_TEXT: dict[str, Callable[[pd.Series, Brief], str]] = {
     ),
     "lifecycle": lambda r, b: f"lifecycle '{r['lifecycle'] or 'unknown'}' is not allowed",
     "height": lambda r, b: (
-        f"height {_num(float(r['height_mm']))} mm > {_num(float(b.limits.max_height_mm))} mm"
+        f"height {_num(float(r['height_mm']))} mm > "
+        f"{_num(float(b.limits.max_height_mm or math.nan))} mm"
     ),
     "qualification": lambda r, b: f"not qualified to {b.limits.require_qualification}",
-    "stock": lambda r, b: f"stock {_num(float(r['stock']))} < {_num(float(b.limits.min_stock))}",
+    "stock": lambda r, b: (
+        f"stock {_num(float(r['stock']))} < {_num(float(b.limits.min_stock or math.nan))}"
+    ),
 }
 
 

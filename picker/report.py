@@ -635,6 +635,6 @@ def catalog_summary(parts: pd.DataFrame, paths: Sequence[Any]) -> str:
     lines = [f"{len(parts)} parts from {len(paths)} file(s)"]
     by_freq = parts.groupby("freq_hz", observed=True).size().sort_index()
     for freq, count in by_freq.items():
-        lines.append(f"  {fmt(float(freq), 'frequency', 7):>14}  {count:>6} parts")
+        lines.append(f"  {fmt(freq, 'frequency', 7):>14}  {count:>6} parts")
     lines.append("Try: picker rank, picker analyze MPN, picker alternates MPN, picker --help")
     return "\n".join(lines) + "\n"
