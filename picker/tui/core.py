@@ -91,7 +91,8 @@ def bundled_catalogs() -> tuple[Path, ...]:
     return tuple(sorted(found))
 
 
-def _quantity(value: object, dimension: str, digits: int = 4) -> str:
+def _quantity(value: object, dimension: str, digits: int = 2) -> str:
+    """SI value as short text with a prefix; `digits` decimals after the prefix."""
     from catalog.units import format_quantity
 
     number = _float(value)
@@ -247,7 +248,7 @@ class PickerCore:
         part = parts.loc[row.name] if row.name in parts.index else pd.Series(dtype=object)
         tuning_fork = str(row.get("cut", "")) == "tuning_fork"
         summary = (
-            f"{_quantity(row['frequency_hz'], 'frequency', 7)} "
+            f"{_quantity(row['frequency_hz'], 'frequency', 6)} "
             f"{'tuning fork' if tuning_fork else str(row.get('cut', '') or 'crystal')}, "
             f"{row.get('mode', 'fundamental')}, package {row.get('package', '')}"
             f"{', ' + str(row['maker']) if str(row.get('maker', '')) else ''} — "
@@ -290,7 +291,7 @@ class PickerCore:
 
         amp, board = b.amplifier, b.board
         figures = [
-            Figure("nominal frequency", _quantity(row["frequency_hz"], "frequency", 9), "catalog"),
+            Figure("nominal frequency", _quantity(row["frequency_hz"], "frequency", 6), "catalog"),
             Figure(
                 "load capacitance (spec)",
                 "series"
@@ -311,8 +312,8 @@ class PickerCore:
             Figure("C0 shunt", _quantity(row["c0_f"], "capacitance"), source("c0_estimated")),
             Figure("C1 motional", _quantity(row["c1_f"], "capacitance"), source("c1_estimated")),
             Figure("L1 motional", _quantity(row["l1_h"], "inductance"), "computed"),
-            Figure("fs series", _quantity(row["fs_hz"], "frequency", 9), "computed"),
-            Figure("fp parallel", _quantity(row["fp_hz"], "frequency", 9), "computed"),
+            Figure("fs series", _quantity(row["fs_hz"], "frequency", 6), "computed"),
+            Figure("fp parallel", _quantity(row["fp_hz"], "frequency", 6), "computed"),
             Figure("Q", _ratio(row["q"]), "computed"),
             Figure("aging, first year", _ppm(row["aging_ppm"]), source("aging_estimated")),
             Figure(
@@ -614,7 +615,7 @@ class PickerCore:
             "Y1",
             str(row["mpn"]),
             str(row.get("maker", "") or ""),
-            f"crystal {_quantity(row['frequency_hz'], 'frequency', 7)}, "
+            f"crystal {_quantity(row['frequency_hz'], 'frequency', 6)}, "
             f"CL {'series' if cl is None else _quantity(cl, 'capacitance')}, "
             f"±{_float(row['tolerance_ppm']) or 0:g} ppm, {row.get('package', '')}",
         ]

@@ -144,6 +144,10 @@ class RowList(ScrollView, can_focus=True):
             return Strip.blank(width, base)
         is_cursor = index == self.cursor
         # The ▶ marks the cursor so it shows without colour (NO_COLOR).
-        cells: Cells = [("▶" if is_cursor else " ", None), *self.row_cells(index, width - 1)]
+        try:
+            row = self.row_cells(index, width - 1)
+        except Exception as error:  # a bad value must not take the whole screen down
+            row = [(f"⚠ row {index + 1} could not be drawn: {error}", "rowlist--bad")]
+        cells: Cells = [("▶" if is_cursor else " ", None), *row]
         style = base + self._style("rowlist--cursor") if is_cursor else base
         return self._strip(cells, width, style)

@@ -7,7 +7,7 @@ import math
 import numpy as np
 
 from picker.tui.bars import budget_bar, margin_bar
-from picker.tui.model import Shortlist
+from picker.tui.model import SHORTLIST_COLUMNS, Shortlist
 from picker.tui.rows import Cells, RowList
 
 STATUS_LABELS = {
@@ -62,18 +62,7 @@ class ShortlistView(RowList):
         self._shortlist = shortlist
         rows = shortlist.rows
         self._mpn = rows["mpn"].to_numpy(dtype=object)
-        self._columns = {
-            name: rows[name].to_numpy()
-            for name in (
-                "status",
-                "score",
-                "package",
-                "spec_cl_f",
-                "esr_ohm",
-                "margin",
-                "total_ppm",
-            )
-        }
+        self._columns = {name: rows[name].to_numpy() for name in SHORTLIST_COLUMNS}
         cursor = 0
         if keep is not None:
             hits = np.flatnonzero(self._mpn == keep)
@@ -90,12 +79,17 @@ class ShortlistView(RowList):
             return None
         return str(self._mpn[self.cursor])
 
+    WIDE = 110
+    """From this row width on, gain margin and budget headroom get their own columns."""
+
     def _layout(self, width: int) -> tuple[int, int]:
         """Widths of the part-number column and of each bar for this row width."""
         bar = 6 if width < 100 else 10
         # status 6, score 5, package 8, CL 6, ESR 6, margin 6, ppm 7, each with its gap
         fixed = 6 + 5 + 1 + 8 + 6 + 6 + 6 + 7 + 2 * bar
-        return max(width - fixed, 8), bar
+        if width >= self.WIDE:
+            fixed += 7 + 7
+        return min(max(width - fixed, 8), 30), bar
 
     def header_cells(self, width: int) -> Cells:
         mpn_width, bar = self._layout(width - 1)
@@ -103,6 +97,8 @@ class ShortlistView(RowList):
             f" {'status':<6} {'scr':>3} {'part number':<{mpn_width}} {'package':<7} "
             f"{'CL pF':>5} {'ESR Ω':>5} {'margin':>6}{'':<{bar}} {'ppm':>5} {'budget':<{bar}}"
         )
+        if width - 1 >= self.WIDE:
+            text += f" {'gain':>6} {'spare':>6}"
         return [(text, None)]
 
     def row_cells(self, index: int, width: int) -> Cells:
@@ -119,7 +115,7 @@ class ShortlistView(RowList):
         margin = float(col["margin"][index])
         total = float(col["total_ppm"][index])
         sl = self._shortlist
-        return [
+        cells: Cells = [
             (status, style),
             (f" {_score_text(float(col['score'][index]))} ", None),
             (f"{mpn:<{mpn_width}} ", None),
@@ -131,3 +127,7 @@ class ShortlistView(RowList):
             (f" {_number(total, 5)} ", None),
             (budget_bar(total, sl.budget_ppm, bar), style),
         ]
+        if width >= self.WIDE:
+            cells.append((f" {_number(float(col['gain_margin'][index]), 5)}×", None))
+            cells.append((f" {_number(float(col['headroom_ppm'][index]), 6)}", None))
+        return cells
