@@ -90,6 +90,7 @@ _DEFAULT_NAME: Final[str] = "Untitled brief"
 _PLACEHOLDER_SOURCE: Final[str] = "<brief>"
 _SUGGEST_CUTOFF: Final[float] = 50.0
 _MAX_INTERNAL_STEPS: Final[int] = 4096
+_MAX_YAML_DEPTH: Final[int] = 16
 
 
 # --- errors ------------------------------------------------------------------------------
@@ -1458,9 +1459,24 @@ def _yaml_problem(error: yaml.YAMLError) -> str:
 
 def _yaml_lines(text: str, source: str) -> dict[Path_, int]:
     """Map each key path to its 1-based line; reject aliases and duplicate keys."""
+    depth = 0
     try:
+        # The event stream is read without recursion, so depth is checked here, before
+        # the (recursive) composer could overflow the stack on hostile nesting.
         for event in yaml.parse(text, Loader=yaml.SafeLoader):
-            if isinstance(event, yaml.AliasEvent):
+            if isinstance(event, yaml.CollectionStartEvent):
+                depth += 1
+                if depth > _MAX_YAML_DEPTH:
+                    line = event.start_mark.line + 1 if event.start_mark else None
+                    raise BriefError(
+                        f"nested more than {_MAX_YAML_DEPTH} levels deep; a brief is a few "
+                        "levels of keys",
+                        source=source,
+                        line=line,
+                    )
+            elif isinstance(event, yaml.CollectionEndEvent):
+                depth -= 1
+            elif isinstance(event, yaml.AliasEvent):
                 line = event.start_mark.line + 1 if event.start_mark else None
                 raise BriefError(
                     "YAML anchors and aliases are not supported in a brief",

@@ -790,6 +790,15 @@ def test_file_aliases_rejected(tmp_path: Path) -> None:
         load_brief(path)
 
 
+def test_file_nested_too_deeply(tmp_path: Path) -> None:
+    # Hostile nesting must give a one-line error, not a RecursionError traceback.
+    path = write(tmp_path, "name: " + "[" * 5000 + "]" * 5000 + "\n")
+    with pytest.raises(BriefError, match=r"brief.yaml:1: nested more than 16 levels deep"):
+        load_brief(path)
+    with pytest.raises(BriefError, match="nested more than 16 levels deep"):
+        load_brief_mapping(path)
+
+
 def test_file_empty_and_not_mapping(tmp_path: Path) -> None:
     with pytest.raises(BriefError, match=r"empty.yaml: the brief is empty"):
         load_brief(write(tmp_path, "", "empty.yaml"))
