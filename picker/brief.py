@@ -43,7 +43,13 @@ import yaml
 from rapidfuzz import fuzz, process
 from rapidfuzz.utils import default_process
 
-from catalog.units import Dimension, UnitError, format_quantity, parse_quantity
+from catalog.units import (
+    Dimension,
+    UnitError,
+    format_quantity,
+    parse_quantity,
+    parse_temperature_range,
+)
 from picker.presets import (
     CLOCK_ROLES,
     CanBitTiming,
@@ -91,6 +97,7 @@ _PLACEHOLDER_SOURCE: Final[str] = "<brief>"
 _SUGGEST_CUTOFF: Final[float] = 50.0
 _MAX_INTERNAL_STEPS: Final[int] = 4096
 _MAX_YAML_DEPTH: Final[int] = 16
+_MAX_TIME_QUANTA: Final[int] = 512
 
 
 # --- errors ------------------------------------------------------------------------------
@@ -670,8 +677,6 @@ def _temperature_range(value: object, path: Path_) -> tuple[float, float]:
     items = _list(value, path, "a range such as [-40 °C, 85 °C]")
     if isinstance(value, str) and len(items) != 2:
         # "-40 to 85 °C" style text.
-        from catalog.units import parse_temperature_range
-
         try:
             return parse_temperature_range(value)
         except UnitError as error:
@@ -708,6 +713,9 @@ def _can_block(value: object, path: Path_) -> CanBitTiming:
         for key in _CAN_KEYS
         if key in data
     }
+    for key, number in numbers.items():
+        if number > _MAX_TIME_QUANTA:
+            raise _fail((*path, key), f"{number} tq is more than any CAN controller counts")
     for key in ("phase_seg1", "phase_seg2", "sjw"):
         if key not in numbers:
             raise _fail((*path, key), "missing (time quanta)")

@@ -657,6 +657,13 @@ def test_validation_message(data: dict[str, Any], message: str) -> None:
     assert error_of(data) == message
 
 
+def test_can_time_quanta_capped() -> None:
+    data = minimal(can={"bit_time_quanta": 100000, "phase_seg1": 7, "phase_seg2": 4, "sjw": 4})
+    assert error_of(data) == (
+        "can.bit_time_quanta: 100000 tq is more than any CAN controller counts"
+    )
+
+
 def test_missing_required_keys() -> None:
     no_frequency = minimal()
     del no_frequency["frequency"]
