@@ -123,9 +123,16 @@ def render_lint_table(report: LintReport, *, width: int = _WIDTH) -> str:
     for path in order:
         file_report = reported.get(path)
         title = path or "(input)"
+        if len(title) > width:
+            title = "..." + title[-(width - 3) :]  # keep the file name end of a long path
         if file_report is not None:
-            title += f"  ({file_report.rows_read} rows read, {file_report.rows_loaded} loaded)"
-        out.extend(textwrap.wrap(title, width=width, subsequent_indent="    ") or [title])
+            counts = f"  ({file_report.rows_read} rows read, {file_report.rows_loaded} loaded)"
+            if len(title) + len(counts) <= width:
+                out.append(title + counts)
+            else:
+                out.extend([title, counts[:width]])
+        else:
+            out.append(title)
         entries = by_path.get(path, [])
         if not entries:
             out.append("  no problems")
