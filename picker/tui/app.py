@@ -29,7 +29,7 @@ from textual.widgets import (
     TabbedContent,
     TabPane,
 )
-from textual.worker import Worker, WorkerState
+from textual.worker import Worker, WorkerState, get_current_worker
 
 from picker.tui.brief_pane import BriefPane
 from picker.tui.commands import PickerCommands
@@ -251,7 +251,9 @@ class PickerApp(App[int]):
     @work(thread=True, exclusive=True, group="rank", exit_on_error=False)
     def rank_now(self, parts: pd.DataFrame, brief: object) -> None:
         shortlist = self.core.rank(parts, brief)
-        self.call_from_thread(self._show_ranking, shortlist)
+        # A newer edit started a newer ranking: this one must not overwrite it.
+        if not get_current_worker().is_cancelled:
+            self.call_from_thread(self._show_ranking, shortlist)
 
     def _show_ranking(self, shortlist: Shortlist) -> None:
         self.shortlist = shortlist
@@ -296,7 +298,8 @@ class PickerApp(App[int]):
         if self.loaded is None or self.shortlist is None:
             return
         sheet = self.core.sheet(self.loaded.parts, self.shortlist, self.brief, mpn)
-        self.call_from_thread(self._show_sheet, sheet)
+        if not get_current_worker().is_cancelled:
+            self.call_from_thread(self._show_sheet, sheet)
 
     def _show_sheet(self, sheet: PartSheet) -> None:
         self.query_one(PartSheetView).show(sheet)
@@ -353,7 +356,8 @@ class PickerApp(App[int]):
                 | frame["package"].astype(str).str.lower().str.contains(word, regex=False)
             )
             frame = frame[hit]
-        self.call_from_thread(self._show_ruled_out, frame)
+        if not get_current_worker().is_cancelled:
+            self.call_from_thread(self._show_ruled_out, frame)
 
     def _show_ruled_out(self, frame: pd.DataFrame) -> None:
         shortlist = self.shortlist

@@ -170,8 +170,10 @@ class BriefPane(VerticalScroll, can_focus=True):
         data = dict(self._data)
         if event.value is Select.NULL:
             data.pop("preset", None)
+            self._set_input(("preset",), "")
         else:
             data["preset"] = str(event.value)
+            self._set_input(("preset",), data["preset"])
             preset = next(p for p in self._presets if p.name == event.value)
             # An explicit budget would override the preset; the preset's own figure replaces it.
             if preset.budget_ppm is None:
