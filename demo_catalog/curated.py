@@ -330,6 +330,13 @@ CIRCUIT_SPECS: tuple[Spec, ...] = (
     Spec("ble_fit_2016_ext", "Kelvaro", 32 * MHZ, "2016", 7.0, 10.0, 10.0, EXT, 50.0,
          aging=1.0, height_mm=0.45),
     Spec("ble_fit_1612", "Kelvaro", 32 * MHZ, "1612", 8.0, 10.0, 10.0, IND, 80.0, aging=1.0),
+    # Larger load, tight figures: less trim sensitivity, so more headroom in the budget.
+    Spec("ble_fit_2520_cl10_a", "Vessado", 32 * MHZ, "2520", 10.0, 10.0, 10.0, IND, 40.0,
+         aging=1.0),
+    Spec("ble_fit_2520_cl10_b", "Kelvaro", 32 * MHZ, "2520", 10.0, 10.0, 10.0, IND, 40.0,
+         aging=1.0, c0_pf=1.8),
+    Spec("ble_fit_2016_cl9", "Oridane", 32 * MHZ, "2016", 9.0, 10.0, 10.0, IND, 50.0,
+         aging=1.0),
     Spec("ble_miss_sum_43", "Quellbrook", 32 * MHZ, "2016", 8.0, 20.0, 20.0, IND, 60.0),
     Spec("ble_miss_marginal_40", "Oridane", 32 * MHZ, "2520", 8.0, 15.0, 20.0, IND, 40.0,
          aging=3.0),
