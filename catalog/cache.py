@@ -225,10 +225,16 @@ def _column_spec(series: pd.Series) -> dict[str, Any]:
 
 
 def _restore_column(series: pd.Series, spec: dict[str, Any]) -> pd.Series:
-    """Give a column read back from parquet exactly the dtype it was written with."""
+    """Give a column read back from parquet exactly the dtype it was written with.
+
+    Returns ``series`` itself when it already has that dtype (the common case: no copy).
+    """
     if spec["dtype"] == "category":
         categories = pd.Index(spec["categories"], dtype=spec["categories_dtype"])
-        return series.astype(pd.CategoricalDtype(categories, ordered=spec["ordered"]))
+        wanted = pd.CategoricalDtype(categories, ordered=spec["ordered"])
+        if _column_spec(series) == spec:
+            return series
+        return series.astype(wanted)
     if str(series.dtype) != spec["dtype"]:
         return series.astype(spec["dtype"])
     return series
@@ -252,13 +258,12 @@ def _check_frame(frame: pd.DataFrame, signature: dict[str, Any]) -> pd.DataFrame
         raise CacheEntryError("column names differ")
     if len(frame) != signature["rows"]:
         raise CacheEntryError("row count differs")
-    restored = pd.DataFrame(
-        {
-            name: _restore_column(frame[name], spec)
-            for name, spec in zip(frame.columns, specs, strict=True)
-        },
-        index=frame.index,
-    )
+    restored = frame
+    for name, spec in zip(frame.columns, specs, strict=True):
+        column = frame[name]
+        fixed = _restore_column(column, spec)
+        if fixed is not column:
+            restored[name] = fixed  # only the columns parquet changed are replaced
     if str(restored.index.dtype) != signature["index_dtype"]:
         restored.index = restored.index.astype(signature["index_dtype"])
     restored.index.name = signature["index_name"]
@@ -370,7 +375,12 @@ def read_entry(root: Path, key: str) -> LoadResult | None:
     data = (entry / _PARTS).read_bytes()
     if len(data) != meta["parts_size"] or _digest_bytes(data) != meta["parts_blake2b"]:
         raise CacheEntryError("part table checksum mismatch")
-    frame = pq.read_table(pa.BufferReader(data)).to_pandas()
+    table = pq.read_table(pa.BufferReader(data))
+    del data
+    # split_blocks + self_destruct: one block per column and Arrow buffers freed as they
+    # convert, so the peak holds about one copy of the table instead of three.
+    frame = table.to_pandas(split_blocks=True, self_destruct=True)
+    del table
     frame = _check_frame(frame, meta["frame"])
     fields = {name: _decode_value(value) for name, value in meta["fields"].items()}
     from catalog.reader import LoadResult as ResultType
