@@ -126,6 +126,8 @@ _DECORATION_WORDS: Final[re.Pattern[str]] = re.compile(
     r"\b(?:max|maximum|min|minimum|typ|typical|nom|nominal|approx|ca|abs|absolute)\b\.?",
     re.IGNORECASE,
 )
+_CONDITION: Final[re.Pattern[str]] = re.compile(r"\s*(?:@|\bat\b).*$", re.IGNORECASE)
+_EMPTY_BRACKETS: Final[re.Pattern[str]] = re.compile(r"[(\[]\s*\.?\s*[)\]]")
 _LEADING_SIGNS: Final[re.Pattern[str]] = re.compile(r"^(?:±|\+/-|\+-|\+/−|<=|>=|≤|≥|<|>|~|≈)\s*")
 
 # Spellings that pint does not know or reads differently (pint's "C" is coulomb).
@@ -352,9 +354,14 @@ def _strip_decorations(text: str) -> str:
         .replace("\u03a9", "ohm")  # Greek capital omega
         .replace("\u2126", "ohm")  # the separate OHM SIGN code point
         .replace("²", "^2")
+        .replace("\u2103", "°C")  # DEGREE CELSIUS as one character
+        .replace("\u2109", "°F")
         .strip()
     )
-    cleaned = _DECORATION_WORDS.sub(" ", cleaned).strip(" :=")
+    # A test condition after the value says nothing about it: "±10 ppm @ 25 °C".
+    cleaned = _CONDITION.sub("", cleaned)
+    cleaned = _DECORATION_WORDS.sub(" ", cleaned)
+    cleaned = _EMPTY_BRACKETS.sub(" ", cleaned).strip(" :=")
     previous = None
     while previous != cleaned:
         previous = cleaned
@@ -389,6 +396,8 @@ def _parse_uncached(text: str, dimension: str, default_unit: str | None) -> floa
     cleaned = _strip_decorations(text)
     if dimension == "money":
         cleaned = _CURRENCY.sub("", cleaned).strip()
+    if dimension == "count":
+        cleaned = cleaned.rstrip("+ ")  # "5000+" in a stock column: at least 5000
     cleaned = _normalise_number(cleaned, dimension)
     if dimension == "resistance":
         rkm = _RKM.match(cleaned)

@@ -73,6 +73,14 @@ from catalog.units import (
         ("1,200", "count", 1200.0),
         ("-0.034 ppm/°C²", "ppm_per_c2", -0.034),
         ("-0.034 ppm/degC^2", "ppm_per_c2", -0.034),
+        # Conditions and bracketed limit words around a value
+        ("±10 ppm @ 25 °C", "ppm", 10.0),
+        ("±10ppm at 25℃", "ppm", 10.0),  # U+2103 DEGREE CELSIUS
+        ("80 Ω (max.)", "resistance", 80.0),
+        ("12 pF (typ)", "capacitance", 12e-12),
+        ("-40℃", "temperature", -40.0),
+        ("5000+", "count", 5000.0),
+        ("0,55 €", "money", 0.55),
     ],
 )
 def test_parse_examples(text: str, dimension: str, expected: float) -> None:
@@ -149,6 +157,7 @@ def test_registry_is_shared() -> None:
         ("-20..70", (-20.0, 70.0)),
         ("[-40, 85]", (-40.0, 85.0)),
         ("−40 to +125 °C", (-40.0, 125.0)),  # typographic minus
+        ("-40 ~ +85℃", (-40.0, 85.0)),
         # NIST SP 811: t/°C = (t/°F - 32) * 5/9; unit given once applies to both ends
         ("-40 to 185 °F", (-40.0, 85.0)),
     ],
