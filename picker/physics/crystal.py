@@ -130,7 +130,8 @@ def impedance(
     """
     omega = _TWO_PI * as_float(f)
     z_motional = as_float(r1) + 1j * (omega * as_float(l1) - 1.0 / (omega * as_float(c1)))
-    z = z_motional / (1.0 + 1j * omega * as_float(c0) * z_motional)
+    with np.errstate(invalid="ignore", divide="ignore"):  # NaN inputs give NaN, silently
+        z = z_motional / (1.0 + 1j * omega * as_float(c0) * z_motional)
     return to_complex(z)
 
 

@@ -90,7 +90,8 @@ def pierce_impedance(
     y2 = as_float(g2) + 1j * w * as_float(cd)
     y3 = as_float(g3) + 1j * w * as_float(c3)
     gm_a = as_float(gm)
-    z = (gm_a + y1 + y2) / (y1 * y2 + y3 * (y1 + y2 + gm_a))
+    with np.errstate(invalid="ignore", divide="ignore"):  # NaN inputs give NaN, silently
+        z = (gm_a + y1 + y2) / (y1 * y2 + y3 * (y1 + y2 + gm_a))
     return to_complex(z)
 
 
@@ -182,7 +183,7 @@ def critical_transconductance(
     -------
     gm_crit : critical transconductance [S]; ``inf`` where no gm makes −Re(Zc) reach R1
         (R1 above the circuit's |Rneg|max); 0 where the passive network alone is already
-        negative (not physical, kept for completeness)
+        negative (not physical, kept for completeness); NaN where an input is NaN
 
     Notes
     -----
@@ -204,6 +205,7 @@ def critical_transconductance(
         root = 2.0 * c / (-b + np.sqrt(disc))
     result = np.where((disc >= 0.0) & (b < 0.0) & (c > 0.0), root, np.inf)
     result = np.where(c <= 0.0, 0.0, result)
+    result = np.where(np.isnan(a) | np.isnan(b) | np.isnan(c), np.nan, result)
     return to_float(np.asarray(result, dtype=np.float64))
 
 
@@ -304,6 +306,9 @@ def _optimum(
     unbounded = (k.q2 == 0.0) & (k.q1 == 0.0) & (k.a2 == 0.0) & (k.a1 < 0.0)
     gm_opt = np.where(unbounded, np.inf, gm_opt)
     rneg_max = np.where(unbounded, np.inf, rneg_max)
+    missing = np.isnan(k.a1) | np.isnan(k.q0) | np.isnan(k.a2) | np.isnan(k.q2)
+    gm_opt = np.where(missing, np.nan, gm_opt)
+    rneg_max = np.where(missing, np.nan, rneg_max)
     return to_float(np.asarray(gm_opt)), to_float(np.asarray(rneg_max))
 
 
@@ -317,7 +322,8 @@ def can_start(r1: ArrayLike, rneg_max: ArrayLike) -> BoolArray:
 
     Returns
     -------
-    ok : True where R1 < |Rneg|max (Vittoz et al., IEEE JSSC 1988)
+    ok : True where R1 < |Rneg|max (Vittoz et al., IEEE JSSC 1988); False where either is
+        NaN (unknown is not a pass — the caller reports why)
     """
     return to_bool(as_float(r1) < as_float(rneg_max))
 
@@ -332,7 +338,7 @@ def negative_resistance_margin(rneg: ArrayLike, r1: ArrayLike) -> FloatArray:
 
     Returns
     -------
-    margin : [1]; 0 where Re(Zc) ≥ 0
+    margin : [1]; 0 where Re(Zc) ≥ 0; NaN where an input is NaN
 
     Notes
     -----
@@ -340,7 +346,8 @@ def negative_resistance_margin(rneg: ArrayLike, r1: ArrayLike) -> FloatArray:
     threshold is a brief setting, not part of the physics.
     """
     rneg_a = as_float(rneg)
-    return to_float(np.asarray(np.where(rneg_a < 0.0, -rneg_a, 0.0) / as_float(r1)))
+    magnitude = np.where(rneg_a < 0.0, -rneg_a, np.where(np.isnan(rneg_a), np.nan, 0.0))
+    return to_float(magnitude / as_float(r1))
 
 
 def gain_margin(gm: ArrayLike, gm_crit: ArrayLike) -> FloatArray:

@@ -18,7 +18,8 @@ def startup_time_constant(l1: ArrayLike, rneg: ArrayLike, r1: ArrayLike) -> Floa
 
     Returns
     -------
-    tau : growth time constant [s]; ``inf`` where |Rneg| ≤ R1 (it cannot start)
+    tau : growth time constant [s]; ``inf`` where |Rneg| ≤ R1 (it cannot start); NaN where
+        an input is NaN
 
     Notes
     -----
@@ -30,7 +31,7 @@ def startup_time_constant(l1: ArrayLike, rneg: ArrayLike, r1: ArrayLike) -> Floa
     l1_a = np.asarray(l1, dtype=np.float64)
     with np.errstate(divide="ignore"):
         tau = np.where(excess > 0.0, 2.0 * l1_a / np.where(excess > 0.0, excess, 1.0), np.inf)
-    tau = np.asarray(tau, dtype=np.float64)
+    tau = np.asarray(np.where(np.isnan(excess) | np.isnan(l1_a), np.nan, tau), dtype=np.float64)
     return to_float(tau)
 
 

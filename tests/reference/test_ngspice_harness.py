@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import numpy as np
+import pytest
 
 from tests.reference.ngspice import Sweep, extremum, run_ac, zero_crossing
 
@@ -49,3 +50,15 @@ def test_helpers_refuse_a_window_without_the_feature() -> None:
         raise AssertionError("extremum accepted a maximum at the window edge")
     location, value = extremum(x, -((x - 0.43) ** 2) + 2.0, find="max")
     assert abs(location - 0.43) < 1e-12 and abs(value - 2.0) < 1e-12
+
+
+def test_missing_ngspice_skips_locally_but_fails_in_ci(monkeypatch: pytest.MonkeyPatch) -> None:
+    from tests.reference import ngspice
+
+    monkeypatch.setattr(ngspice, "ngspice_path", lambda: None)
+    monkeypatch.delenv("CI", raising=False)
+    with pytest.raises(pytest.skip.Exception):
+        ngspice.require_ngspice()
+    monkeypatch.setenv("CI", "true")
+    with pytest.raises(pytest.fail.Exception, match="CI is set"):
+        ngspice.require_ngspice()

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
-from hypothesis import given
+from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from picker.physics import budget, crystal
@@ -30,6 +30,7 @@ def test_missing_figure_is_never_counted_as_zero() -> None:
 _term = st.floats(-500, 500, allow_nan=False)
 
 
+@settings(deadline=None)  # timing varies on shared CI machines
 @given(a=_term, b=_term, c=_term, d=_term, e=_term)
 def test_total_is_never_below_any_part(a: float, b: float, c: float, d: float, e: float) -> None:
     # a worst-case sum of magnitudes bounds every term and the RSS; the RSS bounds each term

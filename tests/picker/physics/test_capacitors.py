@@ -6,7 +6,7 @@ import itertools
 
 import numpy as np
 import pytest
-from hypothesis import given
+from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from picker.physics import capacitors
@@ -97,6 +97,7 @@ def _brute_force_unequal(
     return float(best)
 
 
+@settings(deadline=None)  # timing varies on shared CI machines
 @given(target=st.floats(4.0, 20.0), stray=st.floats(0.5, 3.0), pin=st.floats(0.5, 5.0))
 def test_pair_choices_against_brute_force(target: float, stray: float, pin: float) -> None:
     values = capacitors.standard_values("E12")

@@ -6,7 +6,7 @@ from collections.abc import Callable
 
 import numpy as np
 import pytest
-from hypothesis import given
+from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from picker.physics import crystal
@@ -170,6 +170,7 @@ def test_load_resonance_resistance_is_the_real_part_at_load_resonance() -> None:
         assert abs(z.real / rl - 1) <= (1e-3 if x < 0.15 else x**2)
 
 
+@settings(deadline=None)  # timing varies on shared CI machines
 @given(
     c1=st.floats(0.3, 30.0),
     c0=st.floats(0.5, 7.0),
