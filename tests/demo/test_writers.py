@@ -165,3 +165,20 @@ def test_catalog_reader_loads_both_files_without_problems() -> None:
     for column in ("package", "mode", "pinout", "lifecycle", "qualification"):
         assert loaded[column].astype(str).tolist() == mine[column].astype(str).tolist(), column
     assert loaded["series_calibrated"].tolist() == mine["series_calibrated"].tolist()
+
+
+@pytest.mark.parametrize("style", ["spreadsheet", "plain", "yaml"])
+def test_catalog_reader_loads_generated_catalogs_in_every_style(tmp_path: Path, style: str) -> None:
+    reader = pytest.importorskip("catalog.reader")
+    parts = generate_parts(400, 21)
+    path = tmp_path / ("parts.yaml" if style == "yaml" else "parts.csv")
+    if style == "yaml":
+        write_yaml(parts, path)
+    else:
+        write_csv(parts, path, style=style)  # type: ignore[arg-type]
+    result = reader.load_catalogs([path])
+    assert [p.one_line() for p in result.problems] == []
+    table = generate_part_table(400, 21).set_index("mpn")
+    loaded = result.parts.set_index("mpn").loc[table.index]
+    for column in ("freq_hz", "esr_ohm", "c1_f", "load_capacitance_f", "drive_level_w"):
+        np.testing.assert_allclose(loaded[column], table[column], rtol=1e-9, err_msg=column)
