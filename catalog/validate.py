@@ -380,7 +380,12 @@ def _floats_fast(values: np.ndarray, missing: np.ndarray, bad: np.ndarray) -> np
     return out
 
 
-def validate_table(raw: RawTable, header_map: HeaderMap) -> ParsedTable:
+def validate_table(
+    raw: RawTable,
+    header_map: HeaderMap,
+    *,
+    progress: Callable[[float], None] | None = None,
+) -> ParsedTable:
     """Parse and check every cell of one file; keep rows without errors.
 
     Raises CatalogError (via ``check_required_columns``) when a required column is
@@ -400,7 +405,9 @@ def validate_table(raw: RawTable, header_map: HeaderMap) -> ParsedTable:
     # reader could not split at all.
     reader_bad = dropped.copy()
     parsed: dict[str, _Column] = {}
-    for binding in header_map.bindings:
+    for done, binding in enumerate(header_map.bindings):
+        if progress is not None:
+            progress(done / max(len(header_map.bindings), 1))
         spec = FIELDS_BY_NAME[binding.field]
         parsed_column = _parse_column(
             raw.columns[binding.index], _outcome_parser(spec, binding.unit)
