@@ -155,7 +155,14 @@ def analyze_parts(parts: pd.DataFrame, brief: Brief) -> pd.DataFrame:
     # The nominal is the load-resonance frequency at the spec CL for parallel-calibrated parts
     # (invert the exact zero-phase relation); a series-calibrated part's nominal is fs.
     with np.errstate(invalid="ignore", divide="ignore"):
-        fs = crystal.series_resonance_from_load(f_nom, r1, c1, c0, cl_spec)
+        # Start from the lossless exact inverse fs = f_nom/√(1 + C1/(C0+CL)) and correct once
+        # with the exact zero-phase frequency: the R1 shift (≲ 1 ppm) contracts by about
+        # C1/(C0+CL) ~ 1e-3 per step, so one step leaves < 1e-9 relative (tested).
+        cl_use = np.where(series, np.inf, cl_spec)
+        fs = f_nom / np.sqrt(1.0 + c1 / (c0 + cl_use))
+        fs = np.where(
+            series, f_nom, fs * f_nom / crystal.load_resonance_frequency(fs, r1, c1, c0, cl_use)
+        )
         l1 = crystal.motional_inductance(fs, c1)
         fp = crystal.parallel_resonance(fs, c1, c0)
         q = crystal.quality_factor(fs, r1, c1)
@@ -168,7 +175,10 @@ def analyze_parts(parts: pd.DataFrame, brief: Brief) -> pd.DataFrame:
     c3 = c0 + stray
 
     with np.errstate(invalid="ignore", divide="ignore"):
-        pulling = crystal.pulling_ppm(fs, r1, c1, c0, cl_board, cl_spec)
+        # Pulling: the operating (load-resonance) frequency's offset from the nominal, which is
+        # fL at the spec CL (= f_nom by the inversion above) or fs for series parts (= f_nom).
+        f_board = crystal.load_resonance_frequency(fs, r1, c1, c0, cl_board)
+        pulling = (f_board - f_nom) / f_nom * 1e6
         trim = crystal.trim_sensitivity_ppm_per_pf(c1, c0, cl_board)
 
     omega = 2.0 * np.pi * f_nom
@@ -242,7 +252,9 @@ def _typical_values(parts: pd.DataFrame, f_nom: np.ndarray) -> dict[str, np.ndar
         key = key * labels.size + codes
     low = f_nom < estimates.TUNING_FORK_BELOW_HZ
     key = key * 2 + low
-    first, back = np.unique(key, return_index=True, return_inverse=True)[1:]
+    back, distinct_keys = pd.factorize(key, sort=False)  # hashing: no sort of a million keys
+    first = np.empty(len(distinct_keys), dtype=np.int64)
+    first[back[::-1]] = np.arange(len(key))[::-1]  # last write wins: the first occurrence
     frame = pd.DataFrame({name: labels[codes[first]] for name, (codes, labels) in factors.items()})
     frame["low"] = low[first]
     # A stand-in frequency on the right side of the tuning-fork threshold per combination.
@@ -316,7 +328,8 @@ def _choose_caps(cl_spec: np.ndarray, series: np.ndarray, brief: Brief, n: int) 
     # The pair depends on the target CL only (stray and pin are the brief's), and a catalog
     # holds few distinct CL values: choose once per distinct target, then spread back.
     finite = np.where(np.isfinite(target), target, -1.0)
-    distinct, back = np.unique(finite, return_inverse=True)
+    back, distinct = pd.factorize(finite, sort=False)
+    distinct = np.asarray(distinct, dtype=float)
     if distinct.size == 0:  # an empty part table
         distinct = np.asarray([-1.0])
     chosen = capacitors.choose_unequal_pair(
@@ -531,14 +544,16 @@ def _error_budget(
     tolerance = _col(parts, "tolerance_ppm")
     # Tuning forks: the parabola over the brief's range with β and T0 anywhere in their
     # typical spreads (the catalog's β/T0 when given); other cuts: the rated stability.
-    drift = temperature.temperature_drift_budget_ppm(
-        tuning_fork,
-        _col(parts, "stability_ppm"),
-        brief.temp_min_c,
-        brief.temp_max_c,
-        beta=_col(parts, "beta_ppm_per_c2"),
-        t0=_col(parts, "turnover_c"),
-    )
+    drift = _col(parts, "stability_ppm").copy()
+    if tuning_fork.any():  # the parabola only where needed: most parts are AT-cut
+        drift[tuning_fork] = temperature.temperature_drift_budget_ppm(
+            True,
+            drift[tuning_fork],
+            brief.temp_min_c,
+            brief.temp_max_c,
+            beta=_col(parts, "beta_ppm_per_c2")[tuning_fork],
+            t0=_col(parts, "turnover_c")[tuning_fork],
+        )
     aging = np.abs(aging_law.aging_ppm(aging_first_year, brief.lifetime_s))
     # Spread: both caps at ± their tolerance (absolute below 10 pF) plus the stray
     # uncertainty, turned into ppm through the load-resonance offset at the board CL.

@@ -146,10 +146,13 @@ def rank_analysis(analysis: pd.DataFrame, brief: Brief) -> Ranking:
     for name in SCORE_COMPONENTS:
         columns[f"score_{name}"] = components[name]
     extra = pd.DataFrame(columns, index=analysis.index)
-    table = pd.concat([analysis, extra], axis=1)
+    # One frame without consolidating blocks (a copy of every column at a million rows).
+    merged = {name: analysis[name] for name in analysis.columns}
+    merged.update({name: extra[name] for name in extra.columns})
+    table = pd.DataFrame(merged, index=analysis.index, copy=False)
     # Ruled-out parts: those failing fewer rules first (closest to usable), then by score.
     failures = _popcount(fail)
-    order = _order(status_code, score - failures, analysis["mpn"].to_numpy())
+    order = _order(status_code, score - failures, analysis["mpn"])
     counts = {name: int(np.count_nonzero(status_code == i)) for i, name in enumerate(STATUSES)}
     return Ranking(analysis=table, order=order, brief=brief, counts=counts)
 
@@ -162,24 +165,29 @@ def _popcount(mask: np.ndarray) -> np.ndarray:
     return count
 
 
-def _order(status: np.ndarray, score: np.ndarray, mpns: np.ndarray) -> np.ndarray:
+def _order(status: np.ndarray, score: np.ndarray, mpns: pd.Series) -> np.ndarray:
     """Positions sorted by status, score descending, then part number (ties only)."""
-    key_score = np.where(np.isfinite(score), -score, np.inf)
-    order = np.lexsort((key_score, status))
+    # One float key (status dominates: scores lie within ±20) sorts faster than a lexsort.
+    key = status * 1000.0 + np.where(np.isfinite(score), -score, 500.0)
+    order = np.argsort(key)
     if order.size < 2:
         return order
-    s, k = status[order], key_score[order]
-    tied = (s[1:] == s[:-1]) & (k[1:] == k[:-1])
-    if not tied.any():
+    k = key[order]
+    same = k[1:] == k[:-1]
+    if not same.any():
         return order
-    # Sort part numbers only inside runs of equal keys: string sorting a million rows is slow.
-    starts = np.flatnonzero(np.diff(np.concatenate(([0], tied.astype(np.int8), [0]))) == 1)
-    ends = np.flatnonzero(np.diff(np.concatenate(([0], tied.astype(np.int8), [0]))) == -1) + 1
+    # Break ties by part number, touching only tied rows: a run id per group of equal keys,
+    # then one sort of (run, part number) over those rows.
+    new_run = np.concatenate(([True], ~same))
+    run = np.cumsum(new_run)
+    tied = np.concatenate(([False], same)) | np.concatenate((same, [False]))
+    positions = order[tied]
+    frame = pd.DataFrame(
+        {"run": run[tied], "mpn": mpns.iloc[positions].astype(str).to_numpy()},
+    )
+    resorted = frame.sort_values(["run", "mpn"], kind="stable").index.to_numpy()
     order = order.copy()
-    for start, end in zip(starts, ends, strict=True):
-        run = order[start:end]
-        names = [str(mpns[i]) for i in run]
-        order[start:end] = run[np.argsort(names, kind="stable")]
+    order[tied] = positions[resorted]
     return order
 
 
@@ -190,8 +198,23 @@ def _arr(table: pd.DataFrame, name: str) -> np.ndarray:
     return table[name].to_numpy(dtype=float, na_value=np.nan)
 
 
-def _text(table: pd.DataFrame, name: str) -> np.ndarray:
-    return table[name].astype(str).to_numpy()
+def _per_value(
+    table: pd.DataFrame, name: str, judge: Callable[[str], Any], dtype: Any
+) -> np.ndarray:
+    """``judge`` applied to a text column, evaluated once per distinct value.
+
+    Catalog text columns are categoricals with a handful of values; judging each category
+    and indexing by the codes avoids a million Python strings.
+    """
+    column = table[name]
+    if isinstance(column.dtype, pd.CategoricalDtype):
+        codes = column.cat.codes.to_numpy()
+        labels = [str(c) for c in column.cat.categories] + [""]
+    else:
+        codes, uniques = pd.factorize(column, sort=False)
+        labels = [str(u) for u in uniques] + [""]
+    values = np.asarray([judge(text) for text in labels], dtype=dtype)
+    return values[np.where(codes < 0, len(labels) - 1, codes)]
 
 
 def failure_mask(table: pd.DataFrame, brief: Brief) -> np.ndarray:
@@ -210,7 +233,7 @@ def failure_mask(table: pd.DataFrame, brief: Brief) -> np.ndarray:
     fail("temperature_range", ~((t_min <= brief.temp_min_c) & (t_max >= brief.temp_max_c)))
     if limits.packages:
         allowed = {str(p).upper().replace(" ", "") for p in limits.packages}
-        fail("package", ~table["package"].astype(str).isin(allowed).to_numpy())
+        fail("package", ~_per_value(table, "package", lambda p: p in allowed, bool))
     fail("caps", ~table["caps_realisable"].to_numpy(dtype=bool))
     margin, required = _arr(table, "form_margin"), _arr(table, "form_margin_required")
     outside = table["outside_esr_table"].to_numpy(dtype=bool)
@@ -220,15 +243,15 @@ def failure_mask(table: pd.DataFrame, brief: Brief) -> np.ndarray:
     fail("budget", ~(_arr(table, "budget_headroom_ppm") >= 0.0))
     lifecycles = _allowed_lifecycles(brief)
     if lifecycles is not None:
-        fail("lifecycle", ~table["lifecycle"].astype(str).isin(lifecycles).to_numpy())
+        fail("lifecycle", ~_per_value(table, "lifecycle", lambda v: v in lifecycles, bool))
     max_height = _optional(limits, "max_height_mm")
     if max_height is not None:
         fail("height", _arr(table, "height_mm") > max_height)
     qualification = _optional(limits, "require_qualification")
     if qualification:
         wanted = str(qualification).upper()
-        have = table["qualification"].astype(str).str.upper().str.contains(wanted, regex=False)
-        fail("qualification", ~have.to_numpy(dtype=bool))
+        have = _per_value(table, "qualification", lambda q: wanted in q.upper(), bool)
+        fail("qualification", ~have)
     min_stock = _optional(limits, "min_stock")
     if min_stock is not None:
         fail("stock", ~(_arr(table, "stock") >= min_stock))
@@ -283,8 +306,9 @@ def score_components(table: pd.DataFrame, brief: Brief) -> dict[str, np.ndarray]
         cheapest = finite_price.min() if finite_price.size else np.nan
         price_score = np.where(np.isfinite(price) & (price > 0), cheapest / price, 0.5)
         stock = np.log10(1.0 + np.maximum(_arr(table, "stock"), 0.0)) / np.log10(1.0 + FULL_STOCK)
-    lifecycle = table["lifecycle"].astype(str).map(LIFECYCLE_SCORE)
-    lifecycle_score = lifecycle.to_numpy(dtype=float, na_value=UNKNOWN_LIFECYCLE_SCORE)
+    lifecycle_score = _per_value(
+        table, "lifecycle", lambda v: LIFECYCLE_SCORE.get(v, UNKNOWN_LIFECYCLE_SCORE), float
+    )
     raw = {
         "margin": margin_score,
         "headroom": headroom,
