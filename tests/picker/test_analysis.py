@@ -385,3 +385,28 @@ def test_vectorised_over_many_parts_same_as_one_by_one() -> None:
     alone = analyze_parts(parts.iloc[[17]], brief())
     for name in ("negative_resistance_ohm", "error_total_ppm", "pulling_ppm", "gm_critical_s"):
         assert together[name].iloc[17] == pytest.approx(alone[name].iloc[0], rel=1e-12)
+
+
+def test_one_step_inversion_matches_the_iterated_physics() -> None:
+    # analyze_parts inverts the nominal with one exact-resonance correction; the physics
+    # module iterates to convergence. They must agree to 1e-9 even for a third overtone with
+    # a high ESR (where the closed form is several ppm off), and the pulling must equal
+    # physics.crystal.pulling_ppm.
+    from picker.physics import crystal
+
+    parts = table(
+        [
+            part("OT3", freq_hz=100e6, mode="overtone3", c1_f=0.5e-15, c0_f=3e-12, esr_ohm=120.0),
+            part("FUND", esr_ohm=150.0, load_capacitance_f=18e-12),
+        ]
+    )
+    b = brief(frequency="100 MHz")
+    out = analyze_parts(parts, b)
+    for i, row in enumerate(out.itertuples()):
+        cl = parts["load_capacitance_f"].iloc[i]
+        c1, c0, r1 = parts["c1_f"].iloc[i], parts["c0_f"].iloc[i], parts["esr_ohm"].iloc[i]
+        f_nom = parts["freq_hz"].iloc[i]
+        fs = crystal.series_resonance_from_load(f_nom, r1, c1, c0, cl)
+        assert row.fs_hz == pytest.approx(fs, rel=1e-9)
+        pulling = crystal.pulling_ppm(fs, r1, c1, c0, row.load_capacitance_f, cl)
+        assert row.pulling_ppm == pytest.approx(pulling, abs=1e-3)
