@@ -44,6 +44,8 @@ temperature.py
                                 t0_spread=5) -> DriftBounds(worst_abs_ppm, lowest_ppm,
                                 highest_ppm)
     at_cut_drift_ppm(t_c, angle_deviation_deg=0) -> [ppm]
+    at_cut_drift_bounds_ppm(t_min, t_max, angle_deviation_deg=0) -> DriftBounds (exact)
+    at_cut_best_angle_deg(t_min, t_max, search_deg=1.0) -> angle minimising worst drift [deg]
     temperature_drift_budget_ppm(is_tuning_fork, stability_ppm, t_min, t_max, beta=nan,
                                  t0=nan, beta_spread=0.006, t0_spread=5) -> [ppm] >= 0
 aging.py
@@ -55,6 +57,7 @@ budget.py
     load_capacitance_spread_f(cap_a, cap_b, c_pin, tolerance_fraction, stray_uncertainty,
                               absolute_tolerance_f=0.25e-12) -> ±ΔCL [F]
     load_spread_ppm(c1, c0, cl, delta_cl) -> ± spread [ppm]
+    clock_error_s(error_ppm, interval_s) -> time gained/lost [s] (RTC s/day, min/month)
 capacitors.py — IEC 60063 values; stray across the crystal, pin capacitance per pin
     series_significands(series) -> tuple of one decade
     standard_values(series="E12", low_f=1e-12, high_f=100e-12) -> values [F]
@@ -80,6 +83,7 @@ from __future__ import annotations
 from picker.physics.aging import aging_ppm
 from picker.physics.budget import (
     ErrorBudget,
+    clock_error_s,
     frequency_error_budget,
     load_capacitance_spread_f,
     load_spread_ppm,
@@ -131,6 +135,8 @@ from picker.physics.pierce import (
 from picker.physics.startup import startup_time, startup_time_constant
 from picker.physics.temperature import (
     DriftBounds,
+    at_cut_best_angle_deg,
+    at_cut_drift_bounds_ppm,
     at_cut_drift_ppm,
     temperature_drift_budget_ppm,
     tuning_fork_drift_ppm,
@@ -143,12 +149,15 @@ __all__ = [
     "ErrorBudget",
     "MotionalEstimate",
     "aging_ppm",
+    "at_cut_best_angle_deg",
+    "at_cut_drift_bounds_ppm",
     "at_cut_drift_ppm",
     "board_load_capacitance",
     "can_start",
     "capacitor_tolerance_f",
     "choose_equal_pair",
     "choose_unequal_pair",
+    "clock_error_s",
     "critical_transconductance",
     "drive_level",
     "estimate_motional_capacitances",

@@ -152,3 +152,23 @@ def load_spread_ppm(c1: ArrayLike, c0: ArrayLike, cl: ArrayLike, delta_cl: Array
     high = load_resonance_offset(c1, c0, cl_a + delta)
     result = np.maximum(np.abs(low - centre), np.abs(high - centre)) * 1e6
     return to_float(np.asarray(result))
+
+
+def clock_error_s(error_ppm: ArrayLike, interval_s: ArrayLike) -> FloatArray:
+    """Time a clock gains or loses over an interval at a given frequency error.
+
+    Parameters
+    ----------
+    error_ppm : frequency error [ppm]
+    interval_s : elapsed time [s], e.g. 86400 for a day, 30·86400 for a month
+
+    Returns
+    -------
+    error : accumulated time error [s] (same sign as the frequency error)
+
+    Notes
+    -----
+    Δt = Δf/f · t. For an RTC, ±1 min per 30-day month is 60/(30·86400) = 23.1 ppm, and
+    1 ppm is 0.0864 s per day.
+    """
+    return to_float(as_float(error_ppm) * 1e-6 * as_float(interval_s))

@@ -134,6 +134,78 @@ def at_cut_drift_ppm(t_c: ArrayLike, angle_deviation_deg: ArrayLike = 0.0) -> Fl
     return to_float((a1 * x + AT_CUT_A2 * x**2 + AT_CUT_A3 * x**3) * 1e6)
 
 
+def at_cut_drift_bounds_ppm(
+    t_min: ArrayLike, t_max: ArrayLike, angle_deviation_deg: ArrayLike = 0.0
+) -> DriftBounds:
+    """Exact extremes of the AT-cut cubic over a temperature range.
+
+    Parameters
+    ----------
+    t_min, t_max : temperature range [°C]
+    angle_deviation_deg : cut-angle deviation [degree of arc]
+
+    Returns
+    -------
+    DriftBounds
+        worst |Δf/f|, most negative and most positive Δf/f over the range [ppm]
+
+    Notes
+    -----
+    The extremes of a cubic on an interval lie at the ends or at the turning points
+    x = (−a2 ± √(a2² − 3·a1·a3)) / (3·a3) inside it (cubic of :func:`at_cut_drift_ppm`).
+    """
+    lo, hi, angle = np.broadcast_arrays(
+        as_float(t_min), as_float(t_max), as_float(angle_deviation_deg)
+    )
+    a1 = AT_CUT_A1_PER_DEGREE * angle
+    disc = AT_CUT_A2**2 - 3.0 * a1 * AT_CUT_A3
+    root = np.sqrt(np.maximum(disc, 0.0))
+    candidates = [lo, hi]
+    for sign in (-1.0, 1.0):
+        t_turn = AT_CUT_REFERENCE_C + (-AT_CUT_A2 + sign * root) / (3.0 * AT_CUT_A3)
+        inside = (disc >= 0.0) & (t_turn > lo) & (t_turn < hi)
+        candidates.append(np.where(inside, t_turn, lo))
+    values = np.stack([at_cut_drift_ppm(t, angle) for t in candidates])
+    lowest, highest = values.min(axis=0), values.max(axis=0)
+    worst = np.maximum(np.abs(lowest), np.abs(highest))
+    return DriftBounds(to_float(worst), to_float(lowest), to_float(highest))
+
+
+def at_cut_best_angle_deg(
+    t_min: ArrayLike, t_max: ArrayLike, search_deg: float = 1.0
+) -> FloatArray:
+    """Cut-angle deviation that minimises the worst AT-cut drift over a temperature range.
+
+    Parameters
+    ----------
+    t_min, t_max : temperature range [°C]
+    search_deg : half-width of the searched angle interval [degree of arc]
+
+    Returns
+    -------
+    angle : best cut-angle deviation [degree of arc] (for drift plots of a well-cut part
+        when the catalog gives only a stability figure)
+
+    Notes
+    -----
+    For each temperature Δf/f is affine in a1, so the worst |Δf/f| over the range is a
+    maximum of convex functions of the angle — convex — and a vectorised ternary search
+    finds its minimum (cubic of Gerber & Ballato 1985, after Bechmann et al. 1962).
+    """
+    lo_t, hi_t = np.broadcast_arrays(as_float(t_min), as_float(t_max))
+    lo = np.full(lo_t.shape, -float(search_deg))
+    hi = np.full(lo_t.shape, float(search_deg))
+    for _ in range(80):  # (2/3)^80 of 2° is far below any meaningful angle
+        left = lo + (hi - lo) / 3.0
+        right = hi - (hi - lo) / 3.0
+        worse_left = as_float(at_cut_drift_bounds_ppm(lo_t, hi_t, left).worst_abs_ppm) > as_float(
+            at_cut_drift_bounds_ppm(lo_t, hi_t, right).worst_abs_ppm
+        )
+        lo = np.where(worse_left, left, lo)
+        hi = np.where(worse_left, hi, right)
+    return to_float((lo + hi) / 2.0)
+
+
 def temperature_drift_budget_ppm(
     is_tuning_fork: ArrayLike,
     stability_ppm: ArrayLike,

@@ -95,3 +95,14 @@ def test_load_spread_is_trim_sensitivity_times_delta_to_first_order() -> None:
             budget.load_spread_ppm(3 * FF, 2 * PF, 8 * PF, 1 * PF),
         ],
     )
+
+
+def test_clock_error_for_rtc_figures() -> None:
+    # Design notes §4 RTC preset: ±1 min per 30-day month is 60 s/(30·86400 s) = 23.1 ppm;
+    # 1 ppm accumulates 86.4 ms per day.
+    assert budget.clock_error_s(60 / (30 * 86400) * 1e6, 30 * 86400) == pytest.approx(60.0)
+    assert budget.clock_error_s(23.1, 30 * 86400) == pytest.approx(59.9, abs=0.05)
+    np.testing.assert_allclose(
+        budget.clock_error_s(np.array([1.0, -20.0]), 86400.0), [0.0864, -1.728]
+    )
+    assert np.ndim(budget.clock_error_s(1.0, 86400.0)) == 0

@@ -131,3 +131,38 @@ def test_scalar_and_array_inputs() -> None:
         bounds.worst_abs_ppm[1]
         == temperature.tuning_fork_worst_drift_ppm(-20.0, 70.0).worst_abs_ppm
     )
+
+
+@settings(deadline=None)  # timing varies on shared CI machines
+@given(t_min=st.floats(-55, 20), span=st.floats(5, 150), angle=st.floats(-0.5, 0.5))
+def test_at_cut_bounds_match_a_dense_grid(t_min: float, span: float, angle: float) -> None:
+    # Exact extremes (ends and turning points) against a dense sampling of the cubic.
+    t = np.linspace(t_min, t_min + span, 20001)
+    drift = temperature.at_cut_drift_ppm(t, angle)
+    bounds = temperature.at_cut_drift_bounds_ppm(t_min, t_min + span, angle)
+    # a sampled extremum can only fall short of the true one, by at most f''·h²/8
+    assert bounds.lowest_ppm <= drift.min() + 1e-12
+    assert bounds.highest_ppm >= drift.max() - 1e-12
+    assert bounds.lowest_ppm == pytest.approx(drift.min(), abs=1e-6)
+    assert bounds.highest_ppm == pytest.approx(drift.max(), abs=1e-6)
+    assert bounds.worst_abs_ppm == pytest.approx(np.abs(drift).max(), abs=1e-6)
+
+
+def test_at_cut_best_angle_is_the_grid_minimum() -> None:
+    # Brute force over cut angles (0.0005° steps) of the exact worst drift, against the
+    # ternary search. −40…85 °C: about +0.07° and ±8.4 ppm for an ideally cut blank (rated
+    # parts add angle tolerance, hence the ±10…±30 ppm of catalogs, common practice).
+    ranges = np.array([[-40.0, 85.0], [-20.0, 70.0], [-40.0, 125.0], [0.0, 50.0]])
+    best = temperature.at_cut_best_angle_deg(ranges[:, 0], ranges[:, 1])
+    angles = np.arange(-1.0, 1.0, 0.0005)
+    for (lo, hi), angle in zip(ranges, best, strict=True):
+        worst = temperature.at_cut_drift_bounds_ppm(lo, hi, angles).worst_abs_ppm
+        assert (
+            temperature.at_cut_drift_bounds_ppm(lo, hi, angle).worst_abs_ppm <= worst.min() + 1e-9
+        )
+        assert angle == pytest.approx(angles[np.argmin(worst)], abs=0.001)
+    assert best[0] == pytest.approx(0.07, abs=0.005)
+    assert temperature.at_cut_drift_bounds_ppm(-40.0, 85.0, best[0]).worst_abs_ppm == pytest.approx(
+        8.44, abs=0.01
+    )
+    assert np.ndim(temperature.at_cut_best_angle_deg(-40.0, 85.0)) == 0
