@@ -1,10 +1,11 @@
 """Vectorised random draws of invented crystal parts, as a numeric part table in SI units.
 
 Every column is drawn for all rows at once from one ``numpy.random.Generator``; there is no
-loop over parts (only over the handful of package families). Only ``Generator.random`` and
-``Generator.integers`` are used, and every drawn value is snapped to a grid with exact
-arithmetic (``rint``, ``floor``, ``+``, ``*``, ``/``), so the output is the same on every run
-and platform for a given seed and numpy release.
+loop over parts (only over the handful of package families). Only ``Generator.random`` is
+used, and every drawn value is snapped to a grid with exactly rounded arithmetic (``rint``,
+``floor``, ``+``, ``*``, ``/``), so the output is the same on every run and platform for a
+given seed; numpy documents no stream guarantee across its releases, which ``--check``
+would reveal.
 
 The ranges are plausible figures for invented demo parts (common practice and from memory,
 see :mod:`demo_catalog.packages`); the motional capacitance of AT-cut parts follows from a
@@ -123,9 +124,9 @@ def _pick(u: FloatArray, table: Sequence[tuple[float, float]]) -> FloatArray:
     return values[choose(u, [w for _, w in table])]
 
 
-def _pick_text(u: FloatArray, table: Sequence[tuple[str, float]]) -> npt.NDArray[np.object_]:
-    values = np.array([v for v, _ in table], dtype=object)
-    return np.asarray(values[choose(u, [w for _, w in table])], dtype=object)
+def _categorical(codes: npt.NDArray[np.integer], names: Sequence[str]) -> pd.Categorical[str]:
+    """Text column from integer codes into ``names`` (no per-row strings are built)."""
+    return pd.Categorical.from_codes(codes.astype(np.int64), categories=pd.Index(list(names)))
 
 
 def _package_matrix(kind: str) -> FloatArray:
@@ -295,38 +296,38 @@ def draw_part_table(rng: np.random.Generator, n: int, makers: Sequence[str]) -> 
         u(), _range_attribute(code, "height_mm", 0), _range_attribute(code, "height_mm", 1), 0.05
     )
     four_pad = u() < _attribute(code, "four_pad_share")
-    pinout = np.where(four_pad, np.where(u() < 0.12, "2-4", "1-3"), "").astype(object)
+    pinout = _categorical(np.where(four_pad, np.where(u() < 0.12, 2, 1), 0), ("", "1-3", "2-4"))
 
-    mode = np.where(
-        overtone,
-        np.where((freq_mhz >= 100.0) & (u() < 0.35), "overtone5", "overtone3"),
-        "fundamental",
-    ).astype(object)
-    cut = np.where(fork, "tuning_fork", "AT").astype(object)
+    mode = _categorical(
+        np.where(overtone, np.where((freq_mhz >= 100.0) & (u() < 0.35), 2, 1), 0),
+        ("fundamental", "overtone3", "overtone5"),
+    )
+    cut = _categorical(fork.astype(np.int64), ("AT", "tuning_fork"))
 
     # Commerce.
     automotive_share = np.where(temp_max >= 105.0, 0.55, 0.04)
-    qualification = np.where(u() < automotive_share, "AEC-Q200", "").astype(object)
-    lifecycle = _pick_text(u(), LIFECYCLES)
+    automotive = u() < automotive_share
+    qualification = _categorical(automotive.astype(np.int64), ("", "AEC-Q200"))
+    lifecycle_code = choose(u(), [w for _, w in LIFECYCLES])
+    lifecycle = _categorical(lifecycle_code, tuple(name for name, _ in LIFECYCLES))
     price_u = u()
     price = _range_attribute(code, "price", 0) + price_u * (
         _range_attribute(code, "price", 1) - _range_attribute(code, "price", 0)
     )
     tight = (tolerance <= 10.0) | (np.nan_to_num(stability, nan=99.0) <= 10.0)
-    price = price * np.where(tight, 1.3, 1.0) * np.where(qualification == "AEC-Q200", 1.4, 1.0)
+    price = price * np.where(tight, 1.3, 1.0) * np.where(automotive, 1.4, 1.0)
     price = price * np.where(overtone, 1.5, 1.0)
     price = snap(np.clip(price, 0.05, 2.0), 0.001)
     stock_u = u()
-    out_of_stock = u() < np.where(lifecycle == "obsolete", 0.7, 0.12)
+    out_of_stock = u() < np.where(lifecycle_code == 2, 0.7, 0.12)
     stock = np.where(out_of_stock, 0.0, 1.0 + np.floor(stock_u * stock_u * 200_000.0))
-    msl = _pick_text(u(), MSL_LEVELS)
-    maker_names = np.array(list(makers), dtype=object)
-    maker = maker_names[np.floor(u() * len(makers)).astype(np.int64)]
+    msl = _categorical(choose(u(), [w for _, w in MSL_LEVELS]), tuple(m for m, _ in MSL_LEVELS))
+    maker = _categorical(np.floor(u() * len(makers)).astype(np.int64), tuple(makers))
 
     return pd.DataFrame(
         {
             "mpn": np.full(n, "", dtype=object),
-            "maker": pd.Categorical(maker),
+            "maker": maker,
             "freq_hz": freq_hz,
             "load_capacitance_f": load_f,
             "series_calibrated": series,
@@ -336,8 +337,8 @@ def draw_part_table(rng: np.random.Generator, n: int, makers: Sequence[str]) -> 
             "temp_max_c": temp_max,
             "esr_ohm": esr,
             "package": pd.Categorical.from_codes(code, categories=pd.Index(list(PACKAGE_CODES))),
-            "mode": pd.Categorical(mode),
-            "cut": pd.Categorical(cut),
+            "mode": mode,
+            "cut": cut,
             "beta_ppm_per_c2": beta,
             "turnover_c": turnover,
             "c0_f": c0_f,
@@ -350,10 +351,10 @@ def draw_part_table(rng: np.random.Generator, n: int, makers: Sequence[str]) -> 
             "height_mm": height,
             "price": price,
             "stock": stock,
-            "lifecycle": pd.Categorical(lifecycle),
-            "qualification": pd.Categorical(qualification),
-            "pinout": pd.Categorical(pinout),
-            "msl": pd.Categorical(msl),
+            "lifecycle": lifecycle,
+            "qualification": qualification,
+            "pinout": pinout,
+            "msl": msl,
             "family": family,
         }
     )
