@@ -283,8 +283,8 @@ def ranking_table(ranking: Ranking, frame: pd.DataFrame, *, total_shown: str = "
         f"{ranking.counts.get('fit', 0)} fit, {ranking.counts.get('marginal', 0)} marginal, "
         f"{ranking.counts.get('ruled_out', 0)} ruled out{total_shown}",
         "",
-        f"{'#':>3} {'part number':<15} {'pkg':<6}{'CL':>5}{'ESR':>5}"
-        f"{'margin':>7} {'':<8}{'error/budget':>11}{'':<7} status",
+        f"{'#':>3} {'part number':<14} {'pkg':<6}{'CL':>5}{'ESR':>5}"
+        f"{'margin':>7} {'':<8}{'error/budget':>11}{'':<8} status",
     ]
     for position, (_, row) in enumerate(frame.iterrows(), start=1):
         margin = _float(row["form_margin"])
@@ -299,9 +299,9 @@ def ranking_table(ranking: Ranking, frame: pd.DataFrame, *, total_shown: str = "
         cl = _float(row["spec_load_capacitance_f"])
         cl_text = "ser" if cl is None else f"{cl * 1e12:.3g}"
         lines.append(
-            f"{position:>3} {_clip(str(row['mpn']), 15):<15} {_clip(str(row['package']), 6):<6}"
+            f"{position:>3} {_clip(str(row['mpn']), 14):<14} {_clip(str(row['package']), 6):<6}"
             f"{cl_text:>5}{ohms(row['esr_ohm']):>5}{num(margin, 2):>7} "
-            f"{bar(margin_fraction)}{num(total, 3):>5}/{num(budget, 3):<4}"
+            f"{bar(margin_fraction)}{num(total, 3):>5}/{num(budget, 3):<5}"
             f"{bar(used)} {STATUS_MARK.get(status, status)}"
         )
         if status != "fit":
