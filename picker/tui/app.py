@@ -12,7 +12,6 @@ from collections.abc import Sequence
 from pathlib import Path
 from typing import ClassVar
 
-import numpy as np
 import pandas as pd
 from textual import on, work
 from textual.app import App, ComposeResult
@@ -35,6 +34,7 @@ from picker.tui.brief_pane import BriefPane
 from picker.tui.commands import PickerCommands
 from picker.tui.dialogs import ExportDialog, FindDialog, PathDialog
 from picker.tui.export import ExportError, brief_yaml, write_atomic
+from picker.tui.filtering import filter_rows
 from picker.tui.help_screen import HelpScreen
 from picker.tui.lists import AlternatesView, RuledOutView, fit_cells
 from picker.tui.model import Alternates, Core, Loaded, PartSheet, Preset, Shortlist
@@ -348,14 +348,7 @@ class PickerApp(App[int]):
 
     @work(thread=True, exclusive=True, group="filter", exit_on_error=False)
     def filter_ruled_out(self, shortlist: Shortlist, text: str) -> None:
-        frame = shortlist.ruled_out
-        for word in text.lower().split():
-            hit = (
-                frame["mpn"].astype(str).str.lower().str.contains(word, regex=False)
-                | frame["first_reason"].astype(str).str.lower().str.contains(word, regex=False)
-                | frame["package"].astype(str).str.lower().str.contains(word, regex=False)
-            )
-            frame = frame[hit]
+        frame = filter_rows(shortlist.ruled_out, text, ("mpn", "package", "first_reason"))
         if not get_current_worker().is_cancelled:
             self.call_from_thread(self._show_ruled_out, frame)
 
@@ -371,14 +364,7 @@ class PickerApp(App[int]):
             reasons = self.core.reasons_at(shortlist, key)
             return reasons[0] if reasons else ""
 
-        self.query_one(RuledOutView).show(
-            frame["key"].to_numpy(dtype=np.int64),
-            frame["mpn"].astype(str).to_numpy(),
-            frame["package"].astype(str).to_numpy(),
-            frame["first_reason"].astype(str).to_numpy(),
-            sentence,
-            same_ranking=same,
-        )
+        self.query_one(RuledOutView).show(frame, sentence, same_ranking=same)
 
     # -------------------------------------------------------------- alternates
     def action_alternates(self) -> None:
@@ -469,12 +455,12 @@ class PickerApp(App[int]):
             return
         self.query_one("#ruled-filter", Input).value = ""
         if self.shortlist is not None:
-            frame = self.shortlist.ruled_out
-            self._show_ruled_out(frame)
-            hits = (frame["mpn"].astype(str) == mpn).to_numpy().nonzero()[0]
-            if hits.size:
+            self._show_ruled_out(self.shortlist.ruled_out)
+            ruled = self.query_one(RuledOutView)
+            position = ruled.index_of(mpn)
+            if position is not None:
                 self.action_tab("tab-ruled-out")
-                self.query_one(RuledOutView).cursor = int(hits[0])
+                ruled.cursor = position
                 self.notify(f"{mpn} is ruled out for this brief; its reasons are below.")
                 return
         self.notify(f"{mpn} is in the catalog but not ranked.", severity="warning")

@@ -51,6 +51,20 @@ RULE_LABELS = {
 """Short label of each hard rule of picker.rank, for the ruled-out list before the
 sentence (with the part's numbers) is built for the rows on screen."""
 
+SHORTLIST_SOURCE = {
+    "mpn": "mpn",
+    "status": "status",
+    "score": "score",
+    "package": "package",
+    "spec_cl_f": "spec_load_capacitance_f",
+    "esr_ohm": "esr_ohm",
+    "margin": "negative_resistance_margin",
+    "gain_margin": "gain_margin",
+    "total_ppm": "error_total_ppm",
+    "headroom_ppm": "budget_headroom_ppm",
+}
+"""Shortlist column (picker.tui.model.SHORTLIST_COLUMNS) -> analysis column it shows."""
+
 MARKDOWN_COLUMNS = (
     "rank",
     "mpn",
@@ -191,35 +205,29 @@ class PickerCore:
         listed = ranking.order[: ranking.shortlist_size]
         failed = ranking.order[ranking.shortlist_size :]
 
-        def take(name: str, positions: np.ndarray) -> np.ndarray:
-            return analysis[name].to_numpy()[positions]
-
-        rows = pd.DataFrame(
-            {
-                "mpn": take("mpn", listed),
-                "status": take("status", listed),
-                "score": take("score", listed),
-                "package": take("package", listed),
-                "spec_cl_f": take("spec_load_capacitance_f", listed),
-                "esr_ohm": take("esr_ohm", listed),
-                "margin": take("negative_resistance_margin", listed),
-                "gain_margin": take("gain_margin", listed),
-                "total_ppm": take("error_total_ppm", listed),
-                "headroom_ppm": take("budget_headroom_ppm", listed),
-            }
+        # Select the few columns first, then the rows: a million-row frame is never copied
+        # whole, and text columns stay in pandas' own string storage (no Python objects).
+        rows = (
+            analysis[list(SHORTLIST_SOURCE.values())]
+            .iloc[listed]
+            .set_axis(list(SHORTLIST_SOURCE), axis=1)
+            .reset_index(drop=True)
         )
         mask = analysis["fail_mask"].to_numpy(dtype=np.int64)[failed]
         # The lowest set bit is the most fundamental failed rule (picker.rank orders RULES so).
         lowest = mask & -mask
         index = np.where(lowest > 0, np.log2(np.maximum(lowest, 1)).astype(np.int64), 0)
-        labels = np.asarray([RULE_LABELS.get(r, r) for r in RULES], dtype=object)
-        ruled_out = pd.DataFrame(
-            {
-                "key": failed.astype(np.int64),
-                "mpn": take("mpn", failed),
-                "package": take("package", failed),
-                "first_reason": labels[index],
-            }
+        labels = [RULE_LABELS.get(r, r) for r in RULES]
+        ruled_out = (
+            analysis[["mpn", "package"]]
+            .iloc[failed]
+            .reset_index(drop=True)
+            .assign(
+                key=failed.astype(np.int64),
+                first_reason=pd.Categorical.from_codes(
+                    index.astype(np.int64), categories=pd.Index(labels)
+                ),
+            )
         )
         brief_any: Any = brief
         return Shortlist(

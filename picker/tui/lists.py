@@ -3,14 +3,13 @@
 from __future__ import annotations
 
 import contextlib
-from collections.abc import Callable, Sequence
+from collections.abc import Callable
 
 import numpy as np
+import pandas as pd
 
 from picker.tui.model import Alternate
 from picker.tui.rows import Cells, RowList
-
-Texts = Sequence[str] | np.ndarray
 
 FIT_LABELS = {
     "drop_in": ("● drop-in   ", "rowlist--good"),
@@ -36,43 +35,43 @@ class RuledOutView(RowList):
 
     def __init__(self, *, id: str | None = None) -> None:
         super().__init__(id=id)
+        self._frame = pd.DataFrame({"key": [], "mpn": [], "package": [], "first_reason": []})
         self._keys: np.ndarray = np.array([], dtype=np.int64)
-        self._mpn: Texts = ()
-        self._package: Texts = ()
-        self._label: Texts = ()
         self._sentence: Callable[[int], str] | None = None
         self._sentences: dict[int, str] = {}
 
     def show(
         self,
-        keys: np.ndarray,
-        mpn: Texts,
-        package: Texts,
-        label: Texts,
+        frame: pd.DataFrame,
         sentence: Callable[[int], str] | None = None,
         *,
         same_ranking: bool = False,
     ) -> None:
-        self._keys, self._mpn, self._package, self._label = keys, mpn, package, label
+        """Show ruled-out rows (columns key, mpn, package, first_reason; any index)."""
+        self._frame = frame
+        self._keys = frame["key"].to_numpy(dtype=np.int64)
         self._sentence = sentence
         if not same_ranking:
             self._sentences = {}
-        self.set_row_count(len(mpn))
+        self.set_row_count(len(frame))
+
+    def _text(self, column: str, index: int) -> str:
+        return str(self._frame[column].iloc[index])
 
     def current_mpn(self) -> str | None:
-        return str(self._mpn[self.cursor]) if self.row_count else None
+        return self._text("mpn", self.cursor) if self.row_count else None
 
     def current_key(self) -> int | None:
         return int(self._keys[self.cursor]) if self.row_count else None
 
     def index_of(self, mpn: str) -> int | None:
-        hits = np.flatnonzero(np.asarray(self._mpn, dtype=object) == mpn)
+        hits = np.flatnonzero((self._frame["mpn"] == mpn).to_numpy(dtype=bool))
         return int(hits[0]) if hits.size else None
 
     def _reason(self, index: int) -> str:
         key = int(self._keys[index])
         if key not in self._sentences:
-            text = str(self._label[index])
+            text = self._text("first_reason", index)
             if self._sentence is not None:
                 with contextlib.suppress(KeyError, IndexError, ValueError):
                     text = self._sentence(key)
@@ -88,11 +87,11 @@ class RuledOutView(RowList):
 
     def row_cells(self, index: int, width: int) -> Cells:
         w = self._mpn_width(width)
-        mpn = str(self._mpn[index])
+        mpn = self._text("mpn", index)
         mpn = mpn if len(mpn) <= w else mpn[: w - 1] + "…"
         return [
             (f"{mpn:<{w}} ", None),
-            (f"{str(self._package[index])[:8]:<8} ", None),
+            (f"{self._text('package', index)[:8]:<8} ", None),
             ("✘ ", "rowlist--bad"),
             (self._reason(index), None),
         ]
