@@ -18,6 +18,7 @@ from typing import Final
 
 import numpy as np
 import pyarrow as pa
+import pyarrow.compute as pc
 import pyarrow.csv as pacsv
 
 from catalog.problems import CatalogError, Problem
@@ -218,10 +219,10 @@ class _FastTable:
 def _read_fast(text: str, path: str, limits: Limits) -> _FastTable | None:
     """Columnar read with pyarrow for well-formed files; None sends the file to the careful path.
 
-    Taken only when every line is one record (no quoted line breaks), no line is blank or
-    oversized, the header is the first line and every row has the header's width: then
-    row i is physical line header_line + 1 + i exactly. Anything else (and any parse
-    error) falls back to ``split_csv_text``, which reports problems row by row.
+    Taken only when no line is blank or oversized, the header is the first line and every
+    row has the header's width; a row's physical line is then the header line + 1 + its
+    index + the line breaks quoted inside the rows before it. Anything else (and any
+    parse error) falls back to ``split_csv_text``, which reports problems row by row.
     """
     lines = _physical_lines(text)
     while lines and not lines[-1].strip():
@@ -231,8 +232,6 @@ def _read_fast(text: str, path: str, limits: Limits) -> _FastTable | None:
     if max(map(len, lines)) > limits.max_field_chars or len(lines) > limits.max_rows + 1:
         return None
     if not all(lines[1:]):  # a blank line inside: let the careful path keep line numbers
-        return None
-    if any(line.count('"') % 2 for line in lines):  # cheap test for quoted line breaks
         return None
     delimiter = sniff_delimiter(lines)
     try:
@@ -251,7 +250,7 @@ def _read_fast(text: str, path: str, limits: Limits) -> _FastTable | None:
             io.BytesIO("\n".join(lines[1:]).encode("utf-8")),
             read_options=pacsv.ReadOptions(column_names=names, block_size=1 << 22),
             parse_options=pacsv.ParseOptions(
-                delimiter=delimiter, newlines_in_values=False, ignore_empty_lines=False
+                delimiter=delimiter, newlines_in_values=True, ignore_empty_lines=False
             ),
             convert_options=pacsv.ConvertOptions(
                 column_types=dict.fromkeys(names, pa.string()),
@@ -261,11 +260,23 @@ def _read_fast(text: str, path: str, limits: Limits) -> _FastTable | None:
         )
     except (pa.ArrowInvalid, pa.ArrowException, ValueError, OSError):
         return None
-    if table.num_rows != len(lines) - 1:
-        return None
-    headers = tuple(cell.strip().lstrip("\ufeff") for cell in header_cells)
     columns = tuple(table.column(i) for i in range(width))
-    return _FastTable(headers, columns, np.arange(2, len(lines) + 1, dtype=np.int64), 1)
+    # Quoted line breaks: row i starts after the lines of rows 0..i-1, whose extra lines
+    # are the line breaks inside their cells (counted per column, vectorised).
+    breaks = np.zeros(table.num_rows, dtype=np.int64)
+    for column in columns:
+        breaks += pc.count_substring(column, "\n").to_numpy(zero_copy_only=False)
+    if table.num_rows + int(breaks.sum()) != len(lines) - 1:
+        return None
+    if table.num_rows and int(breaks.max()) >= _MAX_RECORD_LINES:
+        return None  # a "cell" of many lines is an unbalanced quote: the careful path says so
+    starts = (
+        2
+        + np.arange(table.num_rows, dtype=np.int64)
+        + np.concatenate(([0], np.cumsum(breaks)[:-1])).astype(np.int64)
+    )
+    headers = tuple(cell.strip().lstrip("\ufeff") for cell in header_cells)
+    return _FastTable(headers, columns, starts, 1)
 
 
 def _quick_cells(record: str, delimiter: str) -> list[str]:

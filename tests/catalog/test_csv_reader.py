@@ -139,3 +139,33 @@ def test_short_rows_are_padded(write: Write) -> None:
     text = f"{DEMO_HEADER},Notes\n{GOOD_ROW}\n"
     result = load_catalogs([write("short.csv", text)])
     assert len(result.parts) == 1
+
+
+def test_fast_and_careful_paths_agree_on_quoted_line_breaks(write: Write) -> None:
+    # No blank line: the columnar path reads this file; the blank line sends the same
+    # rows through the careful path. Both must give the same cells and physical lines.
+    rows = [
+        GOOD_ROW,
+        '"ZX-16B\nsecond\nthird",Zyxo,16 MHz,12,10,20,-40 to 85 °C,80,3225,3,5',
+        GOOD_ROW.replace("ZX-16A", "ZX-16C"),
+        'ZX-16D,"Zy\nxo",16 MHz,12,10,20,-40 to 85 °C,80,3225,3,5',
+        GOOD_ROW.replace("ZX-16A", "ZX-16E"),
+    ]
+    fast = load_catalogs([write("fast.csv", DEMO_HEADER + "\n" + "\n".join(rows) + "\n")])
+    assert list(fast.parts["source_line"]) == [2, 3, 6, 7, 9]
+    careful = load_catalogs(
+        [
+            write(
+                "careful.csv",
+                DEMO_HEADER
+                + "\n"
+                + "\n".join(rows)
+                + "\n\n"
+                + GOOD_ROW.replace("ZX-16A", "ZX-16F")
+                + "\n",
+            )
+        ]
+    )
+    assert list(careful.parts["source_line"]) == [2, 3, 6, 7, 9, 11]
+    assert list(careful.parts["mpn"])[:5] == list(fast.parts["mpn"])
+    assert fast.parts["maker"].iloc[3] == "Zy\nxo"
