@@ -58,7 +58,8 @@ def number_text(value: float, decimals: int = 6) -> str:
 def frequency_text(hz: float) -> str:
     """ "32.768 kHz", "16 MHz", "106.25 MHz" from hertz."""
     if hz < 1e6:
-        return f"{number_text(hz / 1e3, 3)} kHz"
+        # Watch-crystal catalogs keep three decimals, so 32.000 kHz reads unlike 32.768 kHz.
+        return f"{hz / 1e3:.3f} kHz"
     return f"{number_text(hz / 1e6, 6)} MHz"
 
 

@@ -121,7 +121,7 @@ def _spreadsheet_frequency(value: str) -> str:
     number, scale = split_quantity(value)
     hz = number * scale
     if hz < 1e6:
-        return f"{number_text(hz / 1e3, 3)}kHz"
+        return f"{hz / 1e3:.3f}kHz"
     return f"{hz / 1e6:.3f}MHz"
 
 
