@@ -17,9 +17,8 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from catalog import csv_reader
-from catalog.problems import CatalogError
-
 from catalog.csv_reader import read_csv_table, sniff_delimiter
+from catalog.problems import CatalogError
 from catalog.reader import load_catalogs
 
 from .conftest import DEMO_HEADER, GOOD_ROW
