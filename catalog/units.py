@@ -11,10 +11,12 @@ the same few strings thousands of times.
 from __future__ import annotations
 
 import math
+import numbers
 import re
 from functools import lru_cache
 from typing import Final, Literal, get_args
 
+import numpy as np
 import pint
 
 __all__ = [
@@ -231,12 +233,13 @@ def parse_quantity(
     """
     if dimension not in DIMENSIONS:
         raise UnitError(f"unknown dimension {dimension!r}")
-    if isinstance(text, bool):
+    if isinstance(text, bool | np.bool_):
         raise UnitError(f"expected {_EXAMPLES[dimension]}, got {text!r}")
-    if isinstance(text, int | float):
-        if not math.isfinite(float(text)):
+    if isinstance(text, numbers.Real):  # int, float and numpy scalars (YAML, frames)
+        number = float(text)
+        if not math.isfinite(number):
             raise UnitError(f"expected {_EXAMPLES[dimension]}, got '{text}'")
-        text = repr(float(text)) if isinstance(text, float) else str(text)
+        text = str(int(text)) if isinstance(text, numbers.Integral) else repr(number)
     if not isinstance(text, str):
         raise UnitError(f"expected {_EXAMPLES[dimension]}, got {type(text).__name__}")
     value, message = _parse_cached(text, dimension, default_unit)
