@@ -105,6 +105,7 @@ class PickerApp(App[int]):
         self._rerank_timer: Timer | None = None
         self._filter_timer: Timer | None = None
         self._presets: tuple[Preset, ...] = ()
+        self._detail_text = ""
 
     # ----------------------------------------------------------------- layout
     def compose(self) -> ComposeResult:
@@ -286,11 +287,12 @@ class PickerApp(App[int]):
             return
         row = self.shortlist.rows.iloc[view.cursor]
         status, _ = status_cells(str(row["status"]))
-        detail.update(
+        self._detail_text = (
             f"{status.strip()} {mpn}: margin {row['margin']:.3g}, "
             f"gain {row['gain_margin']:.3g}, {row['total_ppm']:.3g} of "
             f"{self.shortlist.budget_ppm:.4g} ppm · enter: sheet"
         )
+        detail.update(self._detail_text)
         self.load_sheet(mpn)
 
     @work(thread=True, exclusive=True, group="sheet", exit_on_error=False)
@@ -303,6 +305,11 @@ class PickerApp(App[int]):
 
     def _show_sheet(self, sheet: PartSheet) -> None:
         self.query_one(PartSheetView).show(sheet)
+        if sheet.mpn == self.query_one(ShortlistView).current_mpn() and sheet.reasons:
+            # Say why a marginal part is marginal right under the list.
+            self.query_one("#shortlist-detail", Static).update(
+                f"{self._detail_text}\n  {sheet.reasons[0]}"
+            )
 
     @on(RowList.Highlighted, "#ruled-out")
     def _ruled_moved(self, event: RowList.Highlighted) -> None:

@@ -137,9 +137,11 @@ def _ratio(value: object) -> str:
 
 
 def _ppm(value: object, signed: bool = False) -> str:
+    """ppm with three significant digits; below 0.005 ppm it reads as 0."""
     number = _float(value)
     if number is None:
         return "—"
+    number = 0.0 if abs(number) < 0.005 else number
     return f"{number:+.3g} ppm" if signed else f"{number:.3g} ppm"
 
 

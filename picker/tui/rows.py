@@ -130,7 +130,7 @@ class RowList(ScrollView, can_focus=True):
         return Strip(segments).adjust_cell_length(width, base)
 
     def render_line(self, y: int) -> Strip:
-        width = self.size.width
+        width = self.scrollable_content_region.width
         base = self.rich_style
         if y == 0:
             return self._strip(
