@@ -35,7 +35,7 @@ import pandas as pd
 
 from picker.brief import Board, Brief
 from picker.physics import capacitors, crystal
-from picker.rank import Ranking, rank_parts, reasons_for_row
+from picker.rank import Ranking, order_rows, rank_parts, reasons_for_row
 
 Fit = Literal["drop_in", "drop_in_new_caps", "review", "incompatible"]
 FITS: tuple[Fit, ...] = ("drop_in", "drop_in_new_caps", "review", "incompatible")
@@ -79,7 +79,11 @@ class AlternatesResult:
     brief : the circuit the comparison used, or None (data-sheet comparison only).
     ranking : the brief's ranking of all parts (None without a brief).
     fit_codes : class index into FITS per part position (-1 for the reference itself).
-    order : positions of the other parts, closest first.
+    closeness : within a class, higher is closer (fewer worse figures, then the brief's
+        score), per part position.
+    order : positions of the other parts, closest first (sorted on first use: breaking ties
+        by part number over a million rows takes seconds, so ``top(n)`` sorts only the
+        rows that can reach the first ``n`` places).
     """
 
     reference_mpn: str
@@ -87,8 +91,30 @@ class AlternatesResult:
     brief: Brief | None
     ranking: Ranking | None
     fit_codes: np.ndarray
-    order: np.ndarray
+    closeness: np.ndarray
     _reference_position: int = field(repr=False, default=0)
+
+    @property
+    def size(self) -> int:
+        """How many other parts were compared."""
+        return int(np.count_nonzero(self.fit_codes >= 0))
+
+    @cached_property
+    def order(self) -> np.ndarray:
+        return self._ordered(None)
+
+    def _ordered(self, n: int | None) -> np.ndarray:
+        others = np.flatnonzero(self.fit_codes >= 0)
+        if n is not None and n < others.size:
+            # Only rows whose key is within the n best can be among the first n.
+            key = self.fit_codes[others] * 1000.0 - self.closeness[others]
+            kth = np.partition(key, n - 1)[n - 1]
+            others = others[key <= kth]
+        ranked = order_rows(
+            self.fit_codes[others], self.closeness[others], self.parts["mpn"].iloc[others]
+        )
+        chosen = others[ranked]
+        return chosen if n is None else chosen[:n]
 
     @property
     def reference(self) -> pd.Series:
@@ -99,7 +125,10 @@ class AlternatesResult:
 
     def top(self, n: int | None = None) -> list[Alternate]:
         """The closest ``n`` alternates (all when None), differences written out."""
-        positions = self.order if n is None else self.order[:n]
+        if n is None or "order" in self.__dict__:
+            positions = self.order if n is None else self.order[:n]
+        else:
+            positions = self._ordered(n)
         return [self._alternate(int(p)) for p in positions]
 
     @cached_property
@@ -163,17 +192,14 @@ def find_alternates(
         if ranking is not None
         else np.zeros(len(parts))
     )
-    mpns = parts["mpn"].astype(str).to_numpy()
-    others = np.flatnonzero(codes >= 0)
-    keys = (mpns[others], -score[others], worse[others], codes[others])
-    order = others[np.lexsort(keys)]
+    closeness = score - np.minimum(worse, 10) * 1.5
     return AlternatesResult(
         reference_mpn=reference_mpn,
         parts=parts,
         brief=brief,
         ranking=ranking,
         fit_codes=codes,
-        order=order,
+        closeness=closeness,
         _reference_position=ref_pos,
     )
 
@@ -184,14 +210,33 @@ def _num(parts: pd.DataFrame, name: str) -> np.ndarray:
     return parts[name].to_numpy(dtype=float, na_value=np.nan)
 
 
-def _txt(parts: pd.DataFrame, name: str) -> np.ndarray:
+def _codes(parts: pd.DataFrame, name: str) -> tuple[np.ndarray, list[str]]:
+    """Integer codes and their labels for a text column ("" for missing), cheaply: catalog
+    text columns are categoricals; anything else is factorised once."""
+    n = len(parts)
     if name not in parts.columns:
-        return np.full(len(parts), "", dtype=object)
-    return parts[name].astype(str).replace({"nan": "", "<NA>": ""}).to_numpy(dtype=object)
+        return np.zeros(n, dtype=np.int64), [""]
+    column = parts[name]
+    if isinstance(column.dtype, pd.CategoricalDtype):
+        codes = column.cat.codes.to_numpy().astype(np.int64)
+        uniques = list(column.cat.categories)
+    else:
+        codes, found = pd.factorize(column, sort=False)
+        uniques = list(found)
+    labels = [_s(u) for u in uniques] + [""]
+    return np.where(codes < 0, len(labels) - 1, codes), labels
 
 
-def _same_text(values: np.ndarray, ref: object) -> np.ndarray:
-    return np.asarray(values == ref, dtype=bool)
+def _txt_same(parts: pd.DataFrame, name: str, ref_pos: int) -> np.ndarray:
+    """True where the column's text equals the reference's (missing equals missing)."""
+    codes, labels = _codes(parts, name)
+    same_label = np.asarray([label == labels[codes[ref_pos]] for label in labels], dtype=bool)
+    return same_label[codes]
+
+
+def _txt_blank(parts: pd.DataFrame, name: str) -> np.ndarray:
+    codes, labels = _codes(parts, name)
+    return np.asarray([label == "" for label in labels], dtype=bool)[codes]
 
 
 def classify(
@@ -203,14 +248,12 @@ def classify(
     f_ref = freq[ref_pos]
     incompatible = ~(np.abs(freq - f_ref) <= SAME_FREQUENCY * f_ref)
     for name in ("mode", "package"):
-        values = _txt(parts, name)
-        incompatible |= ~_same_text(values, values[ref_pos])
-    pinout = _txt(parts, "pinout")
-    ref_pinout = pinout[ref_pos]
-    pinout_known = (pinout != "") & (ref_pinout != "")
-    incompatible |= pinout_known & (pinout != ref_pinout)
+        incompatible |= ~_txt_same(parts, name, ref_pos)
+    blank_pinout = _txt_blank(parts, "pinout")
+    same_pinout = _txt_same(parts, "pinout", ref_pos)
+    incompatible |= ~blank_pinout & ~blank_pinout[ref_pos] & ~same_pinout
     review = np.zeros(n, dtype=bool)
-    review |= (pinout == "") != (ref_pinout == "")
+    review |= blank_pinout != blank_pinout[ref_pos]
 
     series = _series(parts)
     review |= series != series[ref_pos]
@@ -221,9 +264,8 @@ def classify(
     review |= height > height[ref_pos] + 1e-9
     t_min, t_max = _num(parts, "temp_min_c"), _num(parts, "temp_max_c")
     narrower = (t_min > t_min[ref_pos]) | (t_max < t_max[ref_pos])
-    qual = _txt(parts, "qualification")
-    if qual[ref_pos]:
-        review |= ~_same_text(qual, qual[ref_pos])
+    if not _txt_blank(parts, "qualification")[ref_pos]:
+        review |= ~_txt_same(parts, "qualification", ref_pos)
     msl = _num_text(parts, "msl")
     if np.isfinite(msl[ref_pos]):
         review |= ~(msl <= msl[ref_pos])
@@ -261,9 +303,9 @@ def _series(parts: pd.DataFrame) -> np.ndarray:
 
 def _num_text(parts: pd.DataFrame, name: str) -> np.ndarray:
     """A text column of numbers (MSL "3") as floats; NaN where not a number."""
-    if name not in parts.columns:
-        return np.full(len(parts), np.nan)
-    return pd.to_numeric(parts[name].astype(str), errors="coerce").to_numpy(dtype=float)
+    codes, labels = _codes(parts, name)
+    values = pd.to_numeric(pd.Series(labels, dtype=object), errors="coerce")
+    return values.to_numpy(dtype=float)[codes]
 
 
 # --------------------------------------------------------------------------- words

@@ -246,6 +246,16 @@ def _typical_values(parts: pd.DataFrame, f_nom: np.ndarray) -> dict[str, np.ndar
     """Typical C0, C1, drive rating and the cut per part (physics.estimates), computed once
     per distinct (package, mode, cut, below 1 MHz) combination and spread back to the rows:
     the estimate tables are looked up per value, which would be slow over a million rows."""
+    if len(parts) == 0:
+        empty = np.zeros(0)
+        return {
+            "c0_f": empty,
+            "c1_f": empty,
+            "cut": pd.Categorical([]),
+            "tuning_fork": np.zeros(0, dtype=bool),
+            "cut_estimated": np.zeros(0, dtype=bool),
+            "drive_rating_w": empty,
+        }
     key = np.zeros(len(parts), dtype=np.int64)
     factors = {name: _factor(parts, name) for name in ("package", "mode", "cut")}
     for codes, labels in factors.values():

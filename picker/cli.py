@@ -103,7 +103,13 @@ def _parser() -> argparse.ArgumentParser:
         "alternates", "parts that can replace a reference part", ("table", "json", "csv")
     )
     alternates.add_argument("mpns", nargs="+", metavar="MPN")
-    alternates.add_argument("--top", type=_positive_int, default=None, metavar="N")
+    alternates.add_argument(
+        "--top",
+        type=_positive_int,
+        default=None,
+        metavar="N",
+        help=f"rows to show (table default {TABLE_ROWS}; json/csv default: all)",
+    )
 
     lint = add("lint", "check catalog files and report every problem", ("table", "json"))
     lint.add_argument("paths", nargs="+", metavar="P")
@@ -291,7 +297,7 @@ def _rank(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
         more = available - len(frame)
         note = f"; showing {len(frame)}" + (" (--top N or --all for more)" if more > 0 else "")
         out.write(report.ranking_table(ranking, frame, total_shown=note))
-        out.write("\n" + "\n".join(report.wrap(report.CAUTION, indent="")) + "\n")
+        out.write("\n" + "\n".join(report.wrap(report.CAUTION, indent="", hang="")) + "\n")
     if ranking.shortlist_size == 0:
         print("picker: no part fits this brief (use --all to see why)", file=err)
         return EXIT_FINDING
@@ -323,14 +329,18 @@ def _alternates(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
     for text in args.mpns:
         reference = _resolve(parts, text, err)
         result = find_alternates(parts, reference, brief)
-        rows = result.rows if _option(args, "top") is None else result.rows[: args.top]
+        top = _option(args, "top")
+        if top is None and args.format == "table":
+            top = TABLE_ROWS
+        rows = result.top(top)
         if args.format == "json":
             out.write(report.to_json(report.alternates_objects(result, rows)))
         elif args.format == "csv":
             out.write(report.alternates_csv(result, rows))
         else:
             out.write(report.alternates_table(result, rows))
-        if not any(r.fit in ("drop_in", "drop_in_new_caps") for r in result.rows):
+        counts = result.counts()
+        if counts["drop_in"] + counts["drop_in_new_caps"] == 0:
             print(f"picker: no drop-in alternate for {reference}", file=err)
             status = EXIT_FINDING
     return status

@@ -152,7 +152,7 @@ def rank_analysis(analysis: pd.DataFrame, brief: Brief) -> Ranking:
     table = pd.DataFrame(merged, index=analysis.index, copy=False)
     # Ruled-out parts: those failing fewer rules first (closest to usable), then by score.
     failures = _popcount(fail)
-    order = _order(status_code, score - failures, analysis["mpn"])
+    order = order_rows(status_code, score - failures, analysis["mpn"])
     counts = {name: int(np.count_nonzero(status_code == i)) for i, name in enumerate(STATUSES)}
     return Ranking(analysis=table, order=order, brief=brief, counts=counts)
 
@@ -165,8 +165,11 @@ def _popcount(mask: np.ndarray) -> np.ndarray:
     return count
 
 
-def _order(status: np.ndarray, score: np.ndarray, mpns: pd.Series) -> np.ndarray:
-    """Positions sorted by status, score descending, then part number (ties only)."""
+def order_rows(status: np.ndarray, score: np.ndarray, mpns: pd.Series) -> np.ndarray:
+    """Positions sorted by status (small first), score (high first), then part number.
+
+    ``score`` must lie within ±20. Also used by the alternates (class, closeness).
+    """
     # One float key (status dominates: scores lie within ±20) sorts faster than a lexsort.
     key = status * 1000.0 + np.where(np.isfinite(score), -score, 500.0)
     order = np.argsort(key)

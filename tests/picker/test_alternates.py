@@ -162,3 +162,16 @@ def test_with_a_brief_figures_are_recomputed_per_alternate() -> None:
 def test_unknown_reference_raises_key_error() -> None:
     with pytest.raises(KeyError):
         find_alternates(table(AT_CATALOG), "NOPE", None)
+
+
+def test_top_n_is_the_head_of_the_full_order() -> None:
+    # top(n) sorts only the rows that can reach the first n places; it must agree with the
+    # full order, ties (equal parts) broken by part number in both.
+    rows = [fork("REF")] + [fork(f"TWIN-{i:02d}") for i in range(12, 0, -1)]
+    rows += [fork(f"FAR-{i}", package="2012") for i in range(5)]
+    result = find_alternates(table(rows), "REF", None)
+    head = [a.mpn for a in result.top(5)]
+    assert head == ["TWIN-01", "TWIN-02", "TWIN-03", "TWIN-04", "TWIN-05"]
+    fresh = find_alternates(table(rows), "REF", None)
+    assert [a.mpn for a in fresh.rows][:5] == head
+    assert result.size == 17
