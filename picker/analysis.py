@@ -242,7 +242,7 @@ def analyze_parts(parts: pd.DataFrame, brief: Brief) -> pd.DataFrame:
     return pd.DataFrame(columns, index=parts.index, copy=False)
 
 
-def _typical_values(parts: pd.DataFrame, f_nom: np.ndarray) -> dict[str, np.ndarray]:
+def _typical_values(parts: pd.DataFrame, f_nom: np.ndarray) -> dict[str, Any]:
     """Typical C0, C1, drive rating and the cut per part (physics.estimates), computed once
     per distinct (package, mode, cut, below 1 MHz) combination and spread back to the rows:
     the estimate tables are looked up per value, which would be slow over a million rows."""
