@@ -462,9 +462,16 @@ def _outside_table_text(row: pd.Series, brief: Brief) -> str:
     table = brief.amplifier.max_esr
     points = [] if table is None else [p * 1e12 for p in table.load_capacitance_f]
     span = f"{_num(min(points))}–{_num(max(points))} pF" if points else "no points"
+    cl = float(row["esr_table_cl_f"])
+    inside = bool(points) and min(points) - 1e-3 <= cl * 1e12 <= max(points) + 1e-3
+    if inside and table is not None and table.c0_f is not None:
+        c0_span = f"{_num(min(table.c0_f) * 1e12)}–{_num(max(table.c0_f) * 1e12)} pF"
+        return (
+            f"the chip's ESR table gives no figure at CL {_cap(cl)} with C0 "
+            f"{_cap(float(row['c0_f']))} (C0 axis {c0_span}): not extrapolated, review by hand"
+        )
     return (
-        f"CL {_cap(float(row['esr_table_cl_f']))} is outside the chip's ESR table ({span}): "
-        "not extrapolated, review by hand"
+        f"CL {_cap(cl)} is outside the chip's ESR table ({span}): not extrapolated, review by hand"
     )
 
 

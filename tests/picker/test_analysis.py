@@ -410,3 +410,41 @@ def test_one_step_inversion_matches_the_iterated_physics() -> None:
         assert row.fs_hz == pytest.approx(fs, rel=1e-9)
         pulling = crystal.pulling_ppm(fs, r1, c1, c0, row.load_capacitance_f, cl)
         assert row.pulling_ppm == pytest.approx(pulling, abs=1e-3)
+
+
+def test_max_esr_grid_with_a_c0_axis_is_bilinear() -> None:
+    # Rows CL 8/10/12/16 pF, columns C0 2/3/5 pF (a radio-style table; None = unsupported).
+    # CL 10, C0 4: between 70 Ω (C0 3) and 50 Ω (C0 5) → 60 Ω. CL 11, C0 4: halfway between
+    # CL 10 (60 Ω) and CL 12 ((60 + 40)/2 = 50 Ω) → 55 Ω. CL 16, C0 5: no figure → flagged.
+    b = brief(
+        amplifier={
+            "max_esr": {
+                "load_capacitance": ["8 pF", "10 pF", "12 pF", "16 pF"],
+                "c0": ["2 pF", "3 pF", "5 pF"],
+                "esr": [
+                    ["90 ohm", "80 ohm", "60 ohm"],
+                    ["80 ohm", "70 ohm", "50 ohm"],
+                    ["70 ohm", "60 ohm", "40 ohm"],
+                    ["50 ohm", "40 ohm", None],
+                ],
+            },
+            "pin_capacitance": "1 pF",
+        }
+    )
+    parts = table(
+        [
+            part("A", load_capacitance_f=10e-12, c0_f=4e-12, esr_ohm=30.0),
+            part("B", load_capacitance_f=11e-12, c0_f=4e-12, esr_ohm=30.0),
+            part("C", load_capacitance_f=16e-12, c0_f=5e-12, esr_ohm=30.0),
+            part("D", load_capacitance_f=10e-12, c0_f=6e-12, esr_ohm=30.0),
+        ]
+    )
+    out = analyze_parts(parts, b)
+    assert out["max_esr_ohm"].iloc[0] == pytest.approx(60.0)
+    assert out["max_esr_ohm"].iloc[1] == pytest.approx(55.0)
+    assert out["outside_esr_table"].tolist() == [False, False, True, True]
+    from picker.rank import rank_analysis
+
+    ranking = rank_analysis(out, b)
+    reason = ranking.reasons(ranking.row("D"))[0]
+    assert reason.startswith("the chip's ESR table gives no figure at CL 10 pF with C0 6 pF")
