@@ -89,6 +89,8 @@ def test_committed_export_carries_spreadsheet_decorations() -> None:
     ):
         assert decorated in text, decorated
     assert "\r" not in text and not text.startswith("\ufeff")
+    # The trap for alternates reads as what it is.
+    assert ",32.000 kHz," in text or ",32.000kHz," in text
 
 
 def test_committed_yaml_uses_unit_strings() -> None:
