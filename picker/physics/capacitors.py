@@ -248,7 +248,8 @@ def choose_unequal_pair(
     -----
     For each table value as cap_a, the exact partner is
     C_b = 1/(1/(CL − C_stray) − 1/(C_a + C_pin)) − C_pin; the two table values around it
-    are candidates. That is 2·N candidates per part instead of N² (vectorised).
+    are candidates. That is 2·N candidates instead of N², computed once per distinct
+    (target, stray, pin) and spread back to the parts (vectorised).
     """
     table = standard_values(series) if values_f is None else np.asarray(values_f, dtype=np.float64)
     target, stray_a, pin_a = np.broadcast_arrays(
@@ -257,32 +258,42 @@ def choose_unequal_pair(
         np.asarray(c_pin, dtype=np.float64),
     )
     shape = target.shape
-    t = target.reshape(-1, 1)
-    s = stray_a.reshape(-1, 1)
-    p = pin_a.reshape(-1, 1)
+    # solve once per distinct (target, stray, pin): catalogs repeat a few CL values, and the
+    # candidate grid per row is 2·N wide
+    rows_in = np.stack([target.ravel(), stray_a.ravel(), pin_a.ravel()], axis=1)
+    rows_in = np.where(np.isfinite(rows_in), rows_in, -1.0)  # NaN rows are masked below
+    if rows_in.size and np.all(rows_in[:, 1:] == rows_in[0, 1:]):
+        # the usual case, one board for all parts: a 1-D unique is much faster
+        targets, back = np.unique(rows_in[:, 0], return_inverse=True)
+        distinct = np.column_stack(
+            [targets, np.full(targets.shape, rows_in[0, 1]), np.full(targets.shape, rows_in[0, 2])]
+        )
+    else:
+        distinct, back = np.unique(rows_in, axis=0, return_inverse=True)
+    back = np.asarray(back).reshape(-1)
+    t, s, p = distinct[:, 0:1], distinct[:, 1:2], distinct[:, 2:3]
     cap_a = table[None, :]
     with np.errstate(divide="ignore", invalid="ignore"):
         series_needed = t - s
         partner = 1.0 / (1.0 / series_needed - 1.0 / (cap_a + p)) - p
     partner = np.where(np.isfinite(partner) & (partner > 0.0), partner, table[-1])
     index = np.clip(np.searchsorted(table, partner), 1, len(table) - 1)
-    candidates_b = np.stack([table[index - 1], table[index]], axis=-1)  # (parts, N, 2)
+    candidates_b = np.stack([table[index - 1], table[index]], axis=-1)  # (rows, N, 2)
     candidates_a = np.broadcast_to(cap_a[..., None], candidates_b.shape)
-    small = np.minimum(candidates_a, candidates_b)
-    large = np.maximum(candidates_a, candidates_b)
-    board = _board_cl(small, large, s[..., None], p[..., None])
-    error = np.abs(board - t[..., None])
+    small = np.minimum(candidates_a, candidates_b).reshape(len(distinct), 2 * len(table))
+    large = np.maximum(candidates_a, candidates_b).reshape(len(distinct), 2 * len(table))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        board = _board_cl(small, large, s, p)
+        error = np.abs(board - t)
     ratio = large / small
     error = np.where(ratio <= max_ratio * (1 + 1e-9), error, np.inf)
     # ties (within 1 aF) go to the more equal pair
-    rounded = np.round(error / 1e-18)
-    score = rounded + (ratio - 1.0) / (max_ratio + 1.0)
-    flat_score = score.reshape(score.shape[0], -1)
-    best = np.argmin(flat_score, axis=1)
-    rows = np.arange(score.shape[0])
-    best_a = small.reshape(score.shape[0], -1)[rows, best].reshape(shape)
-    best_b = large.reshape(score.shape[0], -1)[rows, best].reshape(shape)
-    best_board = board.reshape(score.shape[0], -1)[rows, best].reshape(shape)
+    score = np.round(error / 1e-18) + (ratio - 1.0) / (max_ratio + 1.0)
+    best = np.argmin(score, axis=1) if len(distinct) else np.zeros(0, dtype=np.int64)
+    rows = np.arange(len(distinct))
+    best_a = small[rows, best][back].reshape(shape)
+    best_b = large[rows, best][back].reshape(shape)
+    best_board = board[rows, best][back].reshape(shape)
     ideal = np.asarray(ideal_external_capacitance(target, stray_a, pin_a))
     bad = ~np.isfinite(ideal)
     best_a = np.where(bad, np.nan, best_a)

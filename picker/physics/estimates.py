@@ -7,12 +7,16 @@ estimate (the masks returned below say which rows were estimated).
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
+from typing import TypeVar
 
 import numpy as np
 import numpy.typing as npt
 
 from picker.physics._arrays import ArrayLike, BoolArray, FloatArray, to_float
+
+T = TypeVar("T")
 
 #: Below this frequency a part without a stated cut is taken to be a tuning fork.
 TUNING_FORK_BELOW_HZ = 1e6
@@ -65,6 +69,45 @@ _AT_DRIVE_W: dict[str, float] = {
 _AT_DRIVE_DEFAULT_W = 100e-6
 
 
+def _is_missing(value: object) -> bool:
+    return value is None or (isinstance(value, float) and np.isnan(value))
+
+
+def _encode(
+    values: ArrayLike, transform: Callable[[object], T]
+) -> tuple[npt.NDArray[np.int64], list[T]]:
+    """Integer codes per element and the transformed distinct values (one call per value).
+
+    Catalog columns repeat a handful of package, mode and cut names over many rows, so the
+    per-value work runs once per distinct value and the rest is integer indexing.
+    """
+    raw = np.asarray(values, dtype=object)
+    memo: dict[object, int] = {}
+    uniques: list[T] = []
+
+    def code(value: object) -> int:
+        found = memo.get(value)
+        if found is None:
+            found = memo[value] = len(uniques)
+            uniques.append(transform(value))
+        return found
+
+    codes = np.fromiter((code(v) for v in raw.ravel()), dtype=np.int64, count=raw.size)
+    return codes.reshape(raw.shape), uniques
+
+
+def _normalise_one(value: object) -> str:
+    return "" if _is_missing(value) else str(value).upper().replace(" ", "")
+
+
+def _text_one(value: object) -> str:
+    return "" if _is_missing(value) else str(value)
+
+
+def _order_one(value: object) -> int:
+    return {"overtone3": 3, "overtone5": 5, "overtone7": 7}.get(str(value).strip().lower(), 1)
+
+
 def normalise_package(package: ArrayLike) -> npt.NDArray[np.object_]:
     """Package names as the catalog stores them: upper case, spaces removed.
 
@@ -76,13 +119,14 @@ def normalise_package(package: ArrayLike) -> npt.NDArray[np.object_]:
     -------
     names : object array of normalised names ("" for missing values)
     """
-    raw = np.asarray(package, dtype=object)
-    flat = [
-        "" if (value is None or (isinstance(value, float) and np.isnan(value))) else
-        str(value).upper().replace(" ", "")
-        for value in raw.ravel()
-    ]  # fmt: skip
-    return np.asarray(flat, dtype=object).reshape(raw.shape)
+    codes, uniques = _encode(package, _normalise_one)
+    return _take_objects(uniques, codes)
+
+
+def _take_objects(uniques: list[str], codes: npt.NDArray[np.int64]) -> npt.NDArray[np.object_]:
+    table = np.empty(len(uniques), dtype=object)
+    table[:] = uniques
+    return np.asarray(table[codes], dtype=object)
 
 
 def overtone_order(mode: ArrayLike) -> npt.NDArray[np.int64]:
@@ -96,10 +140,8 @@ def overtone_order(mode: ArrayLike) -> npt.NDArray[np.int64]:
     -------
     n : 1, 3 or 5 [1]
     """
-    raw = np.asarray(mode, dtype=object)
-    orders = {"overtone3": 3, "overtone5": 5, "overtone7": 7}
-    flat = [orders.get(str(value).strip().lower(), 1) for value in raw.ravel()]
-    return np.asarray(flat, dtype=np.int64).reshape(raw.shape)
+    codes, uniques = _encode(mode, _order_one)
+    return np.asarray(np.asarray(uniques, dtype=np.int64)[codes], dtype=np.int64)
 
 
 def infer_cut(freq_hz: ArrayLike, cut: ArrayLike) -> tuple[npt.NDArray[np.object_], BoolArray]:
@@ -120,28 +162,14 @@ def infer_cut(freq_hz: ArrayLike, cut: ArrayLike) -> tuple[npt.NDArray[np.object
     Quartz below 1 MHz is in practice a flexural tuning fork (32.768 kHz and relatives);
     above, a thickness-shear AT-cut (common practice).
     """
-    freq, cut_raw = np.broadcast_arrays(
-        np.asarray(freq_hz, dtype=np.float64), np.asarray(cut, dtype=object)
-    )
-    given = np.asarray(
-        ["" if value is None or (isinstance(value, float) and np.isnan(value)) else str(value)
-         for value in cut_raw.ravel()],
-        dtype=object,
-    ).reshape(freq.shape)  # fmt: skip
-    missing = given == ""
-    guess = np.where(freq < TUNING_FORK_BELOW_HZ, "tuning_fork", "AT").astype(object)
-    return np.where(missing, guess, given).astype(object), np.asarray(missing, dtype=bool)
-
-
-def _lookup(
-    names: npt.NDArray[np.object_],
-    table: dict[str, tuple[float, float]],
-    default: tuple[float, float],
-) -> tuple[FloatArray, FloatArray]:
-    pairs = [table.get(str(name), default) for name in names.ravel()]
-    c1 = np.asarray([p[0] for p in pairs], dtype=np.float64).reshape(names.shape)
-    c0 = np.asarray([p[1] for p in pairs], dtype=np.float64).reshape(names.shape)
-    return c1, c0
+    codes, uniques = _encode(cut, _text_one)
+    freq, codes = np.broadcast_arrays(np.asarray(freq_hz, dtype=np.float64), codes)
+    given = _take_objects(uniques, codes)
+    missing = np.asarray([u == "" for u in uniques], dtype=bool)[codes]
+    fork = freq < TUNING_FORK_BELOW_HZ
+    guess = _take_objects(["AT", "tuning_fork"], fork.astype(np.int64))
+    result = np.where(missing, guess, given)
+    return np.asarray(result, dtype=object), missing
 
 
 @dataclass(frozen=True)
@@ -204,23 +232,28 @@ def estimate_motional_capacitances(
     packages larger), overtones C1/n² of the same blank (C1 falls as the square of the
     overtone order n while C0 stays), tuning forks C0 ≈ 1 pF and C1 ≈ 2–4 fF.
     """
-    freq = np.asarray(freq_hz, dtype=np.float64)
-    freq, package_a, mode_a, cut_a, c0_a, c1_a, l1_a = np.broadcast_arrays(
-        freq,
-        normalise_package(package),
-        np.asarray(mode, dtype=object),
-        np.asarray(cut, dtype=object),
+    # encode the name columns before broadcasting, so a scalar mode or cut costs one lookup
+    package_codes, packages = _encode(package, _normalise_one)
+    mode_codes, orders = _encode(mode, _order_one)
+    at_table = np.asarray(
+        [_AT_FUNDAMENTAL.get(name, _AT_DEFAULT) for name in packages], dtype=np.float64
+    ).reshape(-1, 2)
+    fork_table = np.asarray(
+        [_TUNING_FORK.get(name, _TUNING_FORK_DEFAULT) for name in packages], dtype=np.float64
+    ).reshape(-1, 2)
+    freq, package_i, mode_i, c0_a, c1_a, l1_a = np.broadcast_arrays(
+        np.asarray(freq_hz, dtype=np.float64),
+        package_codes,
+        mode_codes,
         np.asarray(c0_f, dtype=np.float64),
         np.asarray(c1_f, dtype=np.float64),
         np.asarray(l1_h, dtype=np.float64),
     )
-    cut_used, cut_inferred = infer_cut(freq, cut_a)
+    cut_used, cut_inferred = infer_cut(freq, cut)
     fork = cut_used == "tuning_fork"
-    at_c1, at_c0 = _lookup(package_a, _AT_FUNDAMENTAL, _AT_DEFAULT)
-    tf_c1, tf_c0 = _lookup(package_a, _TUNING_FORK, _TUNING_FORK_DEFAULT)
-    n = overtone_order(mode_a)
-    typical_c1 = np.where(fork, tf_c1, at_c1 / n.astype(np.float64) ** 2)
-    typical_c0 = np.where(fork, tf_c0, at_c0)
+    n = np.asarray(orders, dtype=np.float64)[mode_i]
+    typical_c1 = np.where(fork, fork_table[package_i, 0], at_table[package_i, 0] / n**2)
+    typical_c0 = np.where(fork, fork_table[package_i, 1], at_table[package_i, 1])
     with np.errstate(divide="ignore", invalid="ignore"):
         from_l1 = 1.0 / ((2.0 * np.pi * freq) ** 2 * l1_a)
     has_c1 = np.isfinite(c1_a) & (c1_a > 0.0)
@@ -255,11 +288,12 @@ def typical_max_drive_level_w(package: ArrayLike, cut: ArrayLike) -> FloatArray:
     From memory, for estimates only: tuning forks 0.5–1 µW (the lower end is used); AT-cut
     SMD parts 100–300 µW, smaller packages lower; HC-49 types higher (common practice).
     """
-    names, cut_a = np.broadcast_arrays(normalise_package(package), np.asarray(cut, dtype=object))
-    at = np.asarray(
-        [_AT_DRIVE_W.get(str(name), _AT_DRIVE_DEFAULT_W) for name in names.ravel()],
-        dtype=np.float64,
-    ).reshape(names.shape)
-    fork = np.asarray([str(c) == "tuning_fork" for c in cut_a.ravel()]).reshape(names.shape)
+    package_codes, ratings = _encode(
+        package, lambda name: _AT_DRIVE_W.get(_normalise_one(name), _AT_DRIVE_DEFAULT_W)
+    )
+    cut_codes, is_fork = _encode(cut, lambda c: str(c) == "tuning_fork")
+    package_i, cut_i = np.broadcast_arrays(package_codes, cut_codes)
+    at = np.asarray(ratings, dtype=np.float64)[package_i]
+    fork = np.asarray(is_fork, dtype=bool)[cut_i]
     result = np.asarray(np.where(fork, _TUNING_FORK_DRIVE_W, at), dtype=np.float64)
     return to_float(result)

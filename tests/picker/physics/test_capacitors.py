@@ -153,3 +153,9 @@ def test_scalar_and_array_inputs() -> None:
             assert single.cap_a_f == vector.cap_a_f[i] and single.cap_b_f == vector.cap_b_f[i]
         grid = chooser(np.stack([targets, targets]), 2 * PF, 1.5 * PF)
         assert grid.board_cl_f.shape == (2, 4)
+
+
+def test_empty_input() -> None:
+    for chooser in (capacitors.choose_equal_pair, capacitors.choose_unequal_pair):
+        pair = chooser(np.array([]), 2 * PF, 1.5 * PF)
+        assert pair.cap_a_f.shape == (0,) and pair.realisable.shape == (0,)

@@ -99,3 +99,15 @@ def test_scalar_and_array_inputs() -> None:
     assert vector.c0_f.shape == (2,)
     assert vector.c1_f[0] == single.c1_f
     assert np.ndim(estimates.typical_max_drive_level_w("3225", "AT")) == 0
+
+
+def test_empty_catalog() -> None:
+    empty_f, empty_o = np.array([]), np.array([], dtype=object)
+    result = estimates.estimate_motional_capacitances(
+        empty_f, empty_o, empty_o, empty_o, empty_f, empty_f, empty_f
+    )
+    assert (
+        result.c0_f.shape == (0,) and result.c1_estimated.shape == (0,) and result.cut.shape == (0,)
+    )
+    assert estimates.typical_max_drive_level_w(empty_o, empty_o).shape == (0,)
+    assert estimates.normalise_package(empty_o).shape == (0,)
