@@ -26,6 +26,13 @@ def aging_ppm(first_year_ppm: ArrayLike, t_s: ArrayLike, b_per_day: ArrayLike = 
     -----
     The log law f(t) = A·ln(B·t + 1) is the aging model of MIL-PRF-55310. With
     B = 0.1/day, 10 years gives about 1.63·X.
+
+    Examples
+    --------
+    Ten years of a part rated ±3 ppm in its first year:
+
+    >>> round(float(aging_ppm(3.0, 10 * 365 * 86400.0)), 2)
+    4.89
     """
     x = np.asarray(first_year_ppm, dtype=np.float64)
     b = np.asarray(b_per_day, dtype=np.float64)

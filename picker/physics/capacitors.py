@@ -197,6 +197,14 @@ def choose_equal_pair(
     -----
     CL is linear in the equal cap value (CL = (C + C_pin)/2 + C_stray), so the nearest
     value is also the one with the nearest board CL.
+
+    Examples
+    --------
+    CL = 12 pF, 2.5 pF stray, 1.5 pF per pin: ideal 17.5 pF, E12 gives 18 pF:
+
+    >>> pair = choose_equal_pair(12e-12, 2.5e-12, 1.5e-12)
+    >>> float(pair.cap_a_f), round(float(pair.board_cl_f) * 1e12, 2)
+    (1.8e-11, 12.25)
     """
     table = standard_values(series) if values_f is None else np.asarray(values_f, dtype=np.float64)
     target, stray_a, pin_a = np.broadcast_arrays(

@@ -207,6 +207,14 @@ def load_resonance_frequency(
     slowly varying function of ω, so ω follows from L1·ω² − X*·ω − 1/C1 = 0 by a fixed-point
     iteration that contracts by about C1/(C0+CL) per step; six steps reach double precision.
     Lossless, X* = 1/(ω(C0+CL)) and fL = fs·√(1 + C1/(C0+CL)) (IEC 60122-1).
+
+    Examples
+    --------
+    16 MHz series resonance, C1 = 5 fF, C0 = 2 pF, CL = 10 pF, R1 = 80 Ω:
+
+    >>> fl = load_resonance_frequency(16e6, 80.0, 5e-15, 2e-12, 10e-12)
+    >>> print(f"{(float(fl) / 16e6 - 1) * 1e6:.2f} ppm above fs")
+    208.70 ppm above fs
     """
     fs_a, r1_a, c1_a, c0_a, cl_a = np.broadcast_arrays(
         as_float(fs), as_float(r1), as_float(c1), as_float(c0), as_float(cl)
@@ -341,6 +349,11 @@ def trim_sensitivity_ppm_per_pf(c1: ArrayLike, c0: ArrayLike, cl: ArrayLike) -> 
     Notes
     -----
     S = −C1 / (2·(C0 + CL)²), IEC 60122-1; ×1e6 for ppm and ×1e-12 per pF.
+
+    Examples
+    --------
+    >>> round(float(trim_sensitivity_ppm_per_pf(5e-15, 2e-12, 10e-12)), 2)
+    -17.36
     """
     c1_a, c0_a, cl_a = as_float(c1), as_float(c0), as_float(cl)
     return to_float(-c1_a / (2.0 * (c0_a + cl_a) ** 2) * 1e6 * 1e-12)

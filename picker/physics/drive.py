@@ -30,6 +30,11 @@ def drive_level(
     I_rms = ω·(C0 + CL)·Vpp/(2√2): P = R1·I_rms² = R1·(π·f·Vpp·(C0 + CL))² / 2
     (IEC 60122-1 drive-level definition; the form given in crystal makers' application
     notes, common practice).
+
+    Examples
+    --------
+    >>> print(f"{float(drive_level(80.0, 16e6, 1.2, 2e-12, 10e-12)) * 1e6:.2f} µW")
+    20.96 µW
     """
     r1_a = np.asarray(r1, dtype=np.float64)
     current_term = np.pi * np.asarray(f, dtype=np.float64) * np.asarray(vpp, dtype=np.float64)

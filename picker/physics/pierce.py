@@ -119,6 +119,13 @@ def negative_resistance(
     -----
     Lossless: Re(Zc) = −gm·Cg·Cd / ((gm·C3)² + ω²·(Cg·Cd + C3·(Cg + Cd))²)
     (Vittoz et al., IEEE JSSC 1988).
+
+    Examples
+    --------
+    16 MHz, gm = 17 mA/V, Cg = Cd = 18 pF, C3 = 7 pF:
+
+    >>> round(float(negative_resistance(2 * np.pi * 16e6, 17e-3, 18e-12, 18e-12, 7e-12)), 1)
+    -314.5
     """
     return to_float(np.asarray(np.real(pierce_impedance(omega, gm, cg, cd, c3, g1, g2, g3))))
 
@@ -193,6 +200,12 @@ def critical_transconductance(
     Lossless this is gm_crit = 2·R1·ω²·K² / (Cg·Cd + √((Cg·Cd)² − 4·R1²·ω²·C3²·K²)),
     K = Cg·Cd + C3·(Cg + Cd), which tends to ω²·R1·Cg·Cd·(1 + C3/Cg + C3/Cd)² when R1 is
     far below |Rneg|max (Vittoz et al., IEEE JSSC 1988; Vittoz 2010, ch. 3).
+
+    Examples
+    --------
+    >>> gm = critical_transconductance(2 * np.pi * 16e6, 80.0, 18e-12, 18e-12, 7e-12)
+    >>> print(f"{float(gm) * 1e3:.3f} mA/V")
+    0.836 mA/V
     """
     k = _real_part_coefficients(omega, cg, cd, c3, g1, g2, g3)
     r1_a = as_float(r1)
@@ -266,6 +279,11 @@ def max_negative_resistance(
     (Vittoz et al., IEEE JSSC 1988). With losses, exact: −Re(Zc) at the stationary point
     given by :func:`optimum_transconductance`. A crystal with R1 above this value cannot
     start with any amplifier in this network.
+
+    Examples
+    --------
+    >>> round(float(max_negative_resistance(2 * np.pi * 16e6, 18e-12, 18e-12, 7e-12)), 1)
+    399.7
     """
     return _optimum(omega, cg, cd, c3, g1, g2, g3)[1]
 

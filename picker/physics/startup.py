@@ -26,6 +26,11 @@ def startup_time_constant(l1: ArrayLike, rneg: ArrayLike, r1: ArrayLike) -> Floa
     The motional current grows as exp(t/τ) with τ = 2·L1 / (|Rneg| − R1): the net negative
     resistance −(|Rneg| − R1) in a series RLC gives the envelope exp(−R·t/(2·L1))
     (Vittoz 2010, ch. 3).
+
+    Examples
+    --------
+    >>> print(f"{float(startup_time_constant(0.02, -400.0, 80.0)) * 1e6:.0f} µs")
+    125 µs
     """
     excess = np.abs(np.asarray(rneg, dtype=np.float64)) - np.asarray(r1, dtype=np.float64)
     l1_a = np.asarray(l1, dtype=np.float64)

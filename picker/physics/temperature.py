@@ -44,6 +44,11 @@ def tuning_fork_drift_ppm(
     -----
     Δf/f = β·(T − T0)² (tuning-fork crystal data sheets, common practice);
     −143.65 ppm at −40 °C for β = −0.034 ppm/°C², T0 = 25 °C.
+
+    Examples
+    --------
+    >>> round(float(tuning_fork_drift_ppm(-40.0)), 2)
+    -143.65
     """
     return to_float(as_float(beta) * (as_float(t_c) - as_float(t0)) ** 2)
 
