@@ -279,8 +279,11 @@ def classify(
     worse += narrower
 
     if ranking is None:
-        # Without a circuit, any worse data-sheet figure needs an engineer's judgement.
+        # Without a circuit, any worse data-sheet figure needs an engineer's judgement, and
+        # an obsolete part is no replacement to buy (a brief's lifecycle rule rules it out).
         review |= (worse > 0) | narrower
+        codes_lc, labels_lc = _codes(parts, "lifecycle")
+        review |= np.asarray([label == "obsolete" for label in labels_lc], dtype=bool)[codes_lc]
     else:
         # In the brief's circuit: a rule the reference passes but the alternate fails makes it
         # incompatible; marginal where the reference is fit needs a review. (Failures the
@@ -512,6 +515,8 @@ def _spec_notes(
         if abs(t_a - t_r) > 0.05:
             notes.append(f"total error {_g(t_a)} ppm vs {_g(t_r)} ppm in this circuit")
     lc = _s(alt.get("lifecycle"))
-    if lc and lc != "active":
+    if lc == "obsolete":
+        notes.insert(0, "lifecycle obsolete: not for new purchases")
+    elif lc and lc != "active":
         notes.append(f"lifecycle {lc}")
     return notes

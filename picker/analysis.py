@@ -38,6 +38,11 @@ SERIES_PART_TARGET_CL_F = 12e-12
 #: a common figure for both AT-cut and tuning-fork parts.
 DEFAULT_AGING_PPM = 3.0
 
+#: An unequal capacitor pair replaces the nearest equal pair only when it brings the board
+#: CL this much closer to the target [F]; smaller gains are within the capacitors' own
+#: tolerance (common practice: equal caps keep the Pierce stage at its design point).
+UNEQUAL_PAIR_GAIN_F = 0.1e-12
+
 #: Start-up is counted from noise to full amplitude: ln(1 V / 1 µV) time constants.
 STARTUP_AMPLITUDE_RATIO = 1e6
 
@@ -342,11 +347,18 @@ def _choose_caps(cl_spec: np.ndarray, series: np.ndarray, brief: Brief, n: int) 
     distinct = np.asarray(distinct, dtype=float)
     if distinct.size == 0:  # an empty part table
         distinct = np.asarray([-1.0])
-    chosen = capacitors.choose_unequal_pair(
-        np.where(distinct > 0, distinct, np.nan), stray, pin, cast(CapSeries, board.cap_series)
-    )
-    cap_a = np.asarray(chosen.cap_a_f, dtype=float).reshape(-1)[back]
-    cap_b = np.asarray(chosen.cap_b_f, dtype=float).reshape(-1)[back]
+    targets = np.where(distinct > 0, distinct, np.nan)
+    series_name = cast(CapSeries, board.cap_series)
+    equal = capacitors.choose_equal_pair(targets, stray, pin, series_name)
+    chosen = capacitors.choose_unequal_pair(targets, stray, pin, series_name)
+    # Equal caps unless an unequal pair lands materially closer: a gain of less than
+    # UNEQUAL_PAIR_GAIN_F is below the capacitors' own tolerance (common practice).
+    miss_equal = np.abs(np.asarray(equal.board_cl_f, dtype=float).reshape(-1) - targets)
+    miss_unequal = np.abs(np.asarray(chosen.board_cl_f, dtype=float).reshape(-1) - targets)
+    use_unequal = miss_unequal < miss_equal - UNEQUAL_PAIR_GAIN_F
+    pick_a = np.where(use_unequal, chosen.cap_a_f, equal.cap_a_f).reshape(-1)
+    pick_b = np.where(use_unequal, chosen.cap_b_f, equal.cap_b_f).reshape(-1)
+    cap_a, cap_b = pick_a[back], pick_b[back]
     return {
         "cap_a_f": cap_a,
         "cap_b_f": cap_b,

@@ -175,3 +175,10 @@ def test_top_n_is_the_head_of_the_full_order() -> None:
     fresh = find_alternates(table(rows), "REF", None)
     assert [a.mpn for a in fresh.rows][:5] == head
     assert result.size == 17
+
+
+def test_obsolete_part_is_not_a_drop_in() -> None:
+    result = find_alternates(table([fork("REF"), fork("OLD", lifecycle="obsolete")]), "REF", None)
+    (alt,) = result.rows
+    assert alt.fit == "review"
+    assert alt.differences[0] == "lifecycle obsolete: not for new purchases"

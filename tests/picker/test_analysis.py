@@ -448,3 +448,13 @@ def test_max_esr_grid_with_a_c0_axis_is_bilinear() -> None:
     ranking = rank_analysis(out, b)
     reason = ranking.reasons(ranking.row("D"))[0]
     assert reason.startswith("the chip's ESR table gives no figure at CL 10 pF with C0 6 pF")
+
+
+def test_equal_caps_kept_when_an_unequal_pair_gains_little() -> None:
+    # CL 7 pF, stray 2 pF, pin 1.5 pF: ideal 2·(7 − 2) − 1.5 = 8.5 pF. Equal E12 8.2 pF:
+    # 9.7/2 + 2 = 6.85 pF (0.15 pF low); the closest unequal pair 6.8 + 12 pF:
+    # 8.3·13.5/21.8 + 2 = 7.14 pF (0.14 pF high) gains only 0.01 pF: keep 8.2 + 8.2 pF.
+    b = brief(amplifier={"gm": "10 mA/V", "pin_capacitance": "1.5 pF"})
+    row = analyze_parts(table([part("P", load_capacitance_f=7e-12)]), b).iloc[0]
+    assert (row["cap_a_f"], row["cap_b_f"]) == pytest.approx((8.2e-12, 8.2e-12))
+    assert row["load_capacitance_f"] == pytest.approx(6.85e-12)
