@@ -1,7 +1,10 @@
 """Hostile and broken inputs: only CatalogError or a LoadResult comes out, never a hang.
 
 The corpus is generated here in tmp_path. Every case also checks that the file was not
-modified by reading it.
+modified by reading it. The YAML alias bomb is the exponential-entity construction known
+as "billion laughs" (first described for XML entities; the same shape works with YAML
+anchors, from memory); the "!!python/object" tags are PyYAML's documented language tags,
+which its full/unsafe loaders would construct.
 """
 
 from __future__ import annotations

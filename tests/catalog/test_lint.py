@@ -1,4 +1,8 @@
-"""Lint report: the JSON shape of DESIGN §6, exit codes and the plain-text table."""
+"""Lint report: the JSON shape of DESIGN §6, exit codes and the plain-text table.
+
+Sources: the JSON keys are DESIGN.md §6 ("lint --format json prints ..."); exit codes
+0 clean or warnings only, 1 error rows, 2 unusable input are the task's contract.
+"""
 
 from __future__ import annotations
 

@@ -1,4 +1,9 @@
-"""load_catalogs: part-table contract, directories, duplicates, progress, read-only."""
+"""load_catalogs: part-table contract, directories, duplicates, progress, read-only.
+
+Sources of the expectations: the part-table columns and dtypes are the team contract
+(INTERFACES.md, "The part table"); duplicate handling and "good rows still load" are
+DESIGN.md §3; SI values follow the BIPM SI Brochure (9th ed.) prefixes.
+"""
 
 from __future__ import annotations
 

@@ -1,4 +1,9 @@
-"""The schema table and header mapping (alias, unit in header, fuzzy, mapping file)."""
+"""The schema table and header mapping (alias, unit in header, fuzzy, mapping file).
+
+Sources: the demo headers are the list in INTERFACES.md ("Canonical CSV header aliases");
+the spreadsheet variants are common distributor/supplier column names (common practice);
+the order exact -> alias -> fuzzy suggestion never applied silently is DESIGN.md §3.
+"""
 
 from __future__ import annotations
 

@@ -1,4 +1,11 @@
-"""Cell and row validation: bad cells, units, ranges, required values, plausibility."""
+"""Cell and row validation: bad cells, units, ranges, required values, plausibility.
+
+Sources: required fields and problem contents are DESIGN.md §3; Q = 1/(2π·f·R1·C1) is the
+Butterworth-Van Dyke relation (IEC 60122-1 terms), checked against sympy; the plausibility
+bands (Q 1e3..1e7, C0/C1 50..50000, CL 4..32 pF) are common practice; the AT-cut frequency
+constant 1.661 MHz·mm is from memory (Bottom, "Introduction to Quartz Crystal Unit
+Design", 1982).
+"""
 
 from __future__ import annotations
 

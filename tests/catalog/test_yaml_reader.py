@@ -1,4 +1,9 @@
-"""YAML catalogs: shapes, line numbers, merges, and refusal of unsafe documents."""
+"""YAML catalogs: shapes, line numbers, merges, and refusal of unsafe documents.
+
+Sources: merge keys ("<<") follow the YAML 1.1 merge-key type (yaml.org/type/merge);
+the tags refused are PyYAML's documented python/* language tags; line numbers are the
+1-based lines of each item as the YAML text is written.
+"""
 
 from __future__ import annotations
 
