@@ -182,10 +182,11 @@ _NEEDS_QUOTES = r'[,"\r\n]|^\s|\s$'
 
 def _csv_table(cells: Cells, ending: str) -> Cells:
     """Cell texts quoted where CSV needs it (RFC 4180), each followed by ``ending``."""
-    table = pd.Series(cells.table, dtype=object).astype(str)
-    quote = table.str.contains(_NEEDS_QUOTES, regex=True).to_numpy(dtype=bool)
-    quoted = np.where(quote, '"' + table.str.replace('"', '""', regex=False) + '"', table)
-    return Cells(cells.codes, tuple((pd.Series(quoted, dtype=object) + ending).tolist()))
+    # pandas string dtype: vectorised (Arrow) on pandas 3, plain objects on pandas 2.
+    table = pd.Series(cells.table, dtype="str")
+    quote = table.str.contains(_NEEDS_QUOTES, regex=True)
+    quoted = table.where(~quote, '"' + table.str.replace('"', '""', regex=False) + '"')
+    return Cells(cells.codes, tuple((quoted + ending).tolist()))
 
 
 def _join_rows(pieces: list[ObjectArray]) -> str:
