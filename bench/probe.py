@@ -37,6 +37,14 @@ def peak_rss_mb() -> float:
     return resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024.0
 
 
+def cache_has(args: argparse.Namespace) -> bool:
+    """True when the parsed catalog is already cached (else the probe's RSS includes a parse,
+    e.g. because the catalog package's source changed since the load probe ran)."""
+    from catalog.cache import catalog_key
+
+    return (Path(args.cache) / ("catalog-" + catalog_key([args.csv]).digest)).is_dir()
+
+
 def _load(args: argparse.Namespace) -> Any:
     from catalog.cache import load_catalogs_cached
 
@@ -230,6 +238,7 @@ def main(argv: list[str] | None = None) -> int:
     parser.add_argument("--sample", type=int, default=20_000)
     parser.add_argument("--repeats", type=int, default=5)
     args = parser.parse_args(argv)
+    hit = cache_has(args) if args.name not in ("hash", "load") else None
     try:
         figures = PROBES[args.name](args)
     except Exception as error:  # the parent prints "n/a" with this reason
@@ -238,6 +247,8 @@ def main(argv: list[str] | None = None) -> int:
             "error": f"{type(error).__name__}: {error} ({Path(last.filename).name}:{last.lineno})"
         }
     figures["peak_rss_mb"] = peak_rss_mb()
+    if hit is not None:
+        figures["cache_hit"] = hit
     sys.stdout.write(json.dumps(figures) + "\n")
     return 0
 

@@ -52,6 +52,8 @@ def target_row(
             "",
             str(figures.get("error", "not measured"))[:90],
         )
+    if figures.get("cache_hit") is False and unit == "MB":
+        note = (note + "; " if note else "") + "cache missed: includes a parse"
     if limit is None:
         return Row(what, _format(float(value), unit), note=note)
     passed = value <= limit
