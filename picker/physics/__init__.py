@@ -31,6 +31,10 @@ pierce.py — Pierce oscillator, small signal (Vittoz, Degrauwe & Bitz, IEEE JSS
     optimum_transconductance(omega, cg, cd, c3, g1=0, g2=0, g3=0) -> gm_opt [S]
     max_negative_resistance(omega, cg, cd, c3, g1=0, g2=0, g3=0) -> |Rneg|max [ohm], > 0
     can_start(r1, rneg_max) -> bool
+    oscillation_frequency(fs, c1, gm, cg, cd, c3, g1=0, g2=0, g3=0) -> f where Zm + Zc is
+        real [Hz]
+    steady_state_frequency(fs, r1, c1, cg, cd, c3, g1=0, g2=0, g3=0) -> settled frequency,
+        amplifier pulling included (gm settles at gm_crit) [Hz]; NaN if it cannot start
     negative_resistance_margin(rneg, r1) -> M = |Rneg|/R1
     gain_margin(gm, gm_crit) -> gm/gm_crit
 drive.py
@@ -130,7 +134,9 @@ from picker.physics.pierce import (
     negative_resistance,
     negative_resistance_margin,
     optimum_transconductance,
+    oscillation_frequency,
     pierce_impedance,
+    steady_state_frequency,
 )
 from picker.physics.startup import startup_time, startup_time_constant
 from picker.physics.temperature import (
@@ -178,6 +184,7 @@ __all__ = [
     "negative_resistance_margin",
     "normalise_package",
     "optimum_transconductance",
+    "oscillation_frequency",
     "overtone_order",
     "parallel_resonance",
     "pierce_impedance",
@@ -190,6 +197,7 @@ __all__ = [
     "standard_values",
     "startup_time",
     "startup_time_constant",
+    "steady_state_frequency",
     "temperature_drift_budget_ppm",
     "trim_sensitivity_ppm_per_pf",
     "tuning_fork_drift_ppm",

@@ -386,3 +386,102 @@ def gain_margin(gm: ArrayLike, gm_crit: ArrayLike) -> FloatArray:
     ch. 3).
     """
     return to_float(np.asarray(as_float(gm) / as_float(gm_crit)))
+
+
+def oscillation_frequency(
+    fs: ArrayLike,
+    c1: ArrayLike,
+    gm: ArrayLike,
+    cg: ArrayLike,
+    cd: ArrayLike,
+    c3: ArrayLike,
+    g1: ArrayLike = 0.0,
+    g2: ArrayLike = 0.0,
+    g3: ArrayLike = 0.0,
+) -> FloatArray:
+    """Frequency at which the motional reactance cancels the circuit's reactance.
+
+    Parameters
+    ----------
+    fs : series resonance of the crystal [Hz]
+    c1 : motional capacitance [F]
+    gm : transconductance the amplifier presents at this amplitude [S]
+    cg, cd, c3, g1, g2, g3 : as in :func:`pierce_impedance` (C3 includes C0)
+
+    Returns
+    -------
+    f : oscillation frequency [Hz]
+
+    Notes
+    -----
+    The loop closes where Zm + Zc = 0; its imaginary part gives
+    ωL1 − 1/(ωC1) = −Im Zc(ω) (Vittoz et al., IEEE JSSC 1988). With gm → 0 this is the
+    load resonance at CL = Cg·Cd/(Cg+Cd) + stray; a finite gm lowers the effective load
+    capacitance and raises the frequency. Solved by the same contracting fixed point as
+    :func:`picker.physics.crystal.load_resonance_frequency`.
+    """
+    fs_a, c1_a = as_float(fs), as_float(c1)
+    omega_s = 2.0 * np.pi * fs_a
+    l1 = 1.0 / (omega_s**2 * c1_a)
+    omega = _load_resonance_start(omega_s, c1_a, cg, cd, c3)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        for _ in range(8):
+            x_star = -np.imag(pierce_impedance(omega, gm, cg, cd, c3, g1, g2, g3))
+            omega = (x_star + np.sqrt(x_star**2 + 4.0 * l1 / c1_a)) / (2.0 * l1)
+    return to_float(omega / (2.0 * np.pi))
+
+
+def steady_state_frequency(
+    fs: ArrayLike,
+    r1: ArrayLike,
+    c1: ArrayLike,
+    cg: ArrayLike,
+    cd: ArrayLike,
+    c3: ArrayLike,
+    g1: ArrayLike = 0.0,
+    g2: ArrayLike = 0.0,
+    g3: ArrayLike = 0.0,
+) -> FloatArray:
+    """Oscillation frequency once the amplitude has settled (amplifier pulling included).
+
+    Parameters
+    ----------
+    fs : series resonance of the crystal [Hz]
+    r1 : motional resistance [ohm]
+    c1 : motional capacitance [F]
+    cg, cd, c3, g1, g2, g3 : as in :func:`pierce_impedance` (C3 includes C0)
+
+    Returns
+    -------
+    f : steady-state oscillation frequency [Hz]; NaN where the crystal cannot start
+
+    Notes
+    -----
+    In steady state the amplitude limits the amplifier's effective transconductance at the
+    fundamental to the critical value, so Zm + Zc = 0 holds in both parts at once:
+    Re Zc(ω, Gm) = −R1 (Gm = gm_crit on the rising branch) and ωL1 − 1/(ωC1) = −Im Zc
+    (Vittoz et al., IEEE JSSC 1988; Vittoz 2010, ch. 3). Iterated jointly from the load
+    resonance. The offset from the plain load-resonance frequency is the amplifier's
+    pulling: typically under 2 ppm for fundamentals, more near the start-up limit.
+    """
+    fs_a, c1_a = as_float(fs), as_float(c1)
+    omega_s = 2.0 * np.pi * fs_a
+    l1 = 1.0 / (omega_s**2 * c1_a)
+    omega = _load_resonance_start(omega_s, c1_a, cg, cd, c3)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        for _ in range(8):
+            gm = critical_transconductance(omega, r1, cg, cd, c3, g1, g2, g3)
+            gm = np.where(np.isfinite(gm), gm, np.nan)
+            x_star = -np.imag(pierce_impedance(omega, gm, cg, cd, c3, g1, g2, g3))
+            omega = (x_star + np.sqrt(x_star**2 + 4.0 * l1 / c1_a)) / (2.0 * l1)
+    return to_float(omega / (2.0 * np.pi))
+
+
+def _load_resonance_start(
+    omega_s: FloatArray, c1: FloatArray, cg: ArrayLike, cd: ArrayLike, c3: ArrayLike
+) -> FloatArray:
+    # lossless load resonance with everything across the arm: C3 + Cg·Cd/(Cg + Cd)
+    cg_a, cd_a = as_float(cg), as_float(cd)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        total = as_float(c3) + cg_a * cd_a / (cg_a + cd_a)
+        return np.asarray(omega_s * np.sqrt(1.0 + c1 / total))

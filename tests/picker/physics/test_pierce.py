@@ -514,3 +514,103 @@ def test_scalar_and_array_inputs(name: str) -> None:
     vector = np.asarray(function(columns))
     assert vector.shape == (len(rows),)
     np.testing.assert_allclose(vector, np.array(scalars), rtol=1e-12)
+
+
+# --- ngspice: the closed loop, motional arm included ------------------------------------------
+
+
+def _loop_cases() -> list[tuple[str, ReferenceCrystal, float, float, float, float, float]]:
+    cases = []
+    for part in CRYSTALS:
+        c3 = part.c0 + STRAY
+        equal = 2 * (part.cl - STRAY)
+        omega = 2 * np.pi * part.fs
+        for loss, (g2, g3) in (
+            ("lossless", (0.0, 0.0)),
+            ("output_bias", (omega * equal / 20, omega * c3 / 50)),
+        ):
+            cases.append((f"{part.name}-{loss}", part, equal, equal, c3, g2, g3))
+    return cases
+
+
+LOOP_CASES = _loop_cases()
+
+
+def _loop_netlist(
+    prefix: str,
+    part: ReferenceCrystal,
+    cg: float,
+    cd: float,
+    c3: float,
+    g2: float,
+    g3: float,
+    gm: float,
+) -> list[str]:
+    # a 1 A test current in series with the loop: V(x) − V(d) = Zm + Zc
+    x, a, b, g, d = (f"{prefix}{n}" for n in ("x", "a", "b", "g", "d"))
+    lines = [
+        f"I{prefix} {d} {x} DC 0 AC 1",
+        f"RM{prefix} {x} {a} {spice_number(part.r1)}",
+        f"LM{prefix} {a} {b} {spice_number(part.l1)}",
+        f"CM{prefix} {b} {g} {spice_number(part.c1)}",
+        f"G{prefix} {d} 0 {g} 0 {spice_number(gm)}",
+        f"CG{prefix} {g} 0 {spice_number(cg)}",
+        f"CD{prefix} {d} 0 {spice_number(cd)}",
+        f"C3{prefix} {g} {d} {spice_number(c3)}",
+    ]
+    if g2 > 0:
+        lines.append(f"R2{prefix} {d} 0 {spice_number(1 / g2)}")
+    if g3 > 0:
+        lines.append(f"R3{prefix} {g} {d} {spice_number(1 / g3)}")
+    return lines
+
+
+@pytest.mark.parametrize("case", LOOP_CASES, ids=lambda c: c[0])
+def test_ngspice_closed_loop_steady_state(
+    case: tuple[str, ReferenceCrystal, float, float, float, float, float],
+) -> None:
+    # ngspice AC of the whole loop (motional arm in series with the Pierce network, VCCS gm):
+    # at gm = gm_crit the loop impedance Zm + Zc must vanish — imaginary part zero at the
+    # steady-state frequency (within 0.001 ppm) and real part zero there (within 0.1 % of
+    # R1). A second copy at 2·gm_crit checks oscillation_frequency at a larger gm.
+    name, part, cg, cd, c3, g2, g3 = case
+    f_ss = float(pierce.steady_state_frequency(part.fs, part.r1, part.c1, cg, cd, c3, 0.0, g2, g3))
+    gm_ss = float(
+        pierce.critical_transconductance(2 * np.pi * f_ss, part.r1, cg, cd, c3, 0.0, g2, g3)
+    )
+    f_double = float(
+        pierce.oscillation_frequency(part.fs, part.c1, 2 * gm_ss, cg, cd, c3, 0.0, g2, g3)
+    )
+    # the window is set from closed forms, independent of the functions under test: from
+    # just below the load resonance up to the limit gm → ∞ (only C3 left across the arm)
+    centre = part.fs * (1 + crystal.load_resonance_offset(part.c1, c3, cg * cd / (cg + cd)))
+    start, stop = centre * (1 - 50e-6), part.fs * np.sqrt(1 + part.c1 / c3) * (1 + 50e-6)
+    lines = _loop_netlist("s", part, cg, cd, c3, g2, g3, gm_ss) + _loop_netlist(
+        "t", part, cg, cd, c3, g2, g3, 2 * gm_ss
+    )
+    results = run_ac("\n".join(lines), [Sweep(name, start, stop, 4001, ("sx,sd", "tx,td"))])
+    sweep = results[name]
+    loop_ss, loop_double = sweep.voltages["sx,sd"], sweep.voltages["tx,td"]
+    found = zero_crossing(sweep.frequency, loop_ss.imag)
+    assert (found - f_ss) / part.fs * 1e6 == pytest.approx(0.0, abs=1e-3)
+    real_there = np.interp(found, sweep.frequency, loop_ss.real)
+    assert abs(real_there) < 1e-3 * part.r1
+    found_double = zero_crossing(sweep.frequency, loop_double.imag)
+    assert (found_double - f_double) / part.fs * 1e6 == pytest.approx(0.0, abs=1e-3)
+    # and more gm gives more frequency (lower effective load capacitance)
+    assert found_double > found
+
+
+def test_oscillation_frequency_without_gain_is_the_lossless_load_resonance() -> None:
+    # gm → 0: Zc is the capacitance C3 + CgCd/(Cg+Cd) = C0 + CL, so the loop resonates at
+    # fs·√(1 + C1/(C0+CL)) (IEC 60122-1 lossless load resonance).
+    fs, c1, c0, stray, cap = 16e6, 5e-15, 2 * PF, 1 * PF, 18 * PF
+    cl = float(pierce.board_load_capacitance(cap, cap, stray))
+    f = pierce.oscillation_frequency(fs, c1, 0.0, cap, cap, c0 + stray)
+    assert f == pytest.approx(fs * np.sqrt(1 + c1 / (c0 + cl)), rel=1e-14)
+    assert np.isnan(pierce.steady_state_frequency(fs, 1e5, c1, cap, cap, c0 + stray))
+    vector = pierce.steady_state_frequency(
+        np.array([fs, fs]), np.array([80.0, 1e5]), c1, cap, cap, c0 + stray
+    )
+    assert np.isfinite(vector[0]) and np.isnan(vector[1])
+    assert np.ndim(pierce.steady_state_frequency(fs, 80.0, c1, cap, cap, c0 + stray)) == 0
