@@ -3,7 +3,9 @@
 Every function accepts floats or numpy arrays, broadcasts them, and returns the same shape
 (a 0-d input gives a numpy scalar). Units: Hz, rad/s, ohm, S, F, H, W, V, s, °C, ppm.
 Every figure is an estimate from data-sheet values; confirm margins with the crystal maker
-and with a negative-resistance test on the real board.
+and with a negative-resistance test on the real board; safety-critical products follow
+their own qualification rules and local regulations. NaN in (a figure not given) gives NaN
+out, never a silent pass or zero.
 
 Public API (re-exported here)
 -----------------------------
@@ -38,7 +40,7 @@ pierce.py — Pierce oscillator, small signal (Vittoz, Degrauwe & Bitz, IEEE JSS
     negative_resistance_margin(rneg, r1) -> M = |Rneg|/R1
     gain_margin(gm, gm_crit) -> gm/gm_crit
 drive.py
-    drive_level(r1, f, vpp, c0, cl) -> P [W]
+    drive_level(r1, f, vpp, c0, cl) -> P [W] (first-order, slightly conservative)
 startup.py
     startup_time_constant(l1, rneg, r1) -> tau = 2 L1/(|Rneg|-R1) [s] (inf if it cannot start)
     startup_time(l1, rneg, r1, ratio=1e6) -> tau ln(ratio) [s]
