@@ -106,3 +106,16 @@ def test_clock_error_for_rtc_figures() -> None:
         budget.clock_error_s(np.array([1.0, -20.0]), 86400.0), [0.0864, -1.728]
     )
     assert np.ndim(budget.clock_error_s(1.0, 86400.0)) == 0
+
+
+def test_load_capacitance_spread_arrays() -> None:
+    caps = np.array([18.0, 6.8, 12.0]) * PF
+    vector = budget.load_capacitance_spread_f(
+        caps, caps, 1.5 * PF, 0.05, np.array([1.0, 0.0, 0.5]) * PF
+    )
+    singles = [
+        budget.load_capacitance_spread_f(c, c, 1.5 * PF, 0.05, u * PF)
+        for c, u in zip(caps, [1.0, 0.0, 0.5], strict=True)
+    ]
+    np.testing.assert_allclose(vector, singles, rtol=1e-12)
+    np.testing.assert_allclose(vector[:2], [1.45 * PF, 0.125 * PF], rtol=1e-12)
