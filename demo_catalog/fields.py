@@ -13,7 +13,7 @@ from collections.abc import Callable
 import numpy as np
 import pandas as pd
 
-from demo_catalog.makers import factorize
+from demo_catalog.distinct import factorize
 
 # Field order of the text frame (DESIGN.md §3 names).
 FIELDS: tuple[str, ...] = (

@@ -20,8 +20,8 @@ import numpy.typing as npt
 import pandas as pd
 import yaml
 
+from demo_catalog.distinct import ObjectArray, factorize
 from demo_catalog.fields import FIELDS, number_text
-from demo_catalog.makers import ObjectArray, factorize
 
 CsvStyle = Literal["spreadsheet", "plain"]
 
