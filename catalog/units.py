@@ -128,6 +128,13 @@ _DECORATION_WORDS: Final[re.Pattern[str]] = re.compile(
     r"\b(?:max|maximum|min|minimum|typ|typical|nom|nominal|approx|ca|abs|absolute)\b\.?",
     re.IGNORECASE,
 )
+_PER_YEAR: Final[re.Pattern[str]] = re.compile(
+    r"(?:/|per)?(?:1st|first)?(?:yr|year|y|a|annum)s?$|(?:/|per)(?:1st|first)(?:yr|year)$"
+)
+# "value ± spread" (a nominal with its spread): the nominal is the value.
+_NOMINAL_SPREAD: Final[re.Pattern[str]] = re.compile(
+    rf"^({_NUMBER})\s*([^\d±+]*?)\s*(?:±|\+/-|\+-)\s*(?:{_NUMBER})\s*(\S*)$"
+)
 _CONDITION: Final[re.Pattern[str]] = re.compile(r"\s*(?:@|\bat\b).*$", re.IGNORECASE)
 _EMPTY_BRACKETS: Final[re.Pattern[str]] = re.compile(r"[(\[]\s*\.?\s*[)\]]")
 _LEADING_SIGNS: Final[re.Pattern[str]] = re.compile(r"^(?:±|\+/-|\+-|\+/−|<=|>=|≤|≥|<|>|~|≈)\s*")
@@ -408,6 +415,9 @@ def _parse_uncached(text: str, dimension: str, default_unit: str | None) -> floa
             whole, letter, fraction = rkm.groups()
             scale = {"R": 1.0, "k": 1e3, "K": 1e3, "M": 1e6}[letter]
             return _finite(float(f"{whole}.{fraction or '0'}") * scale, dimension, text)
+    spread = _NOMINAL_SPREAD.match(cleaned)
+    if spread is not None:
+        cleaned = f"{spread.group(1)} {spread.group(2).strip() or spread.group(3)}".strip()
     match = _NUMBER_THEN_UNIT.match(cleaned)
     if match is None:
         raise UnitError(_expected(dimension, text))
@@ -437,8 +447,7 @@ def _convert(number: float, unit: str, dimension: str, raw: str) -> float:
         # Offset units: build the quantity directly (multiplying would be ambiguous).
         return float(ureg.Quantity(number, name).to("degC").magnitude)
     if dimension == "ppm":
-        for suffix in ("/yr", "/year", "/y", "/a", "peryear", "firstyear", "/1styear", "/1yr"):
-            key = key.removesuffix(suffix)
+        key = _PER_YEAR.sub("", key)
         if key not in _PPM_FACTORS:
             raise UnitError(_expected(dimension, raw))
         return number * _PPM_FACTORS[key]
@@ -478,10 +487,40 @@ def _convert_physical(number: float, unit: str, dimension: str, raw: str) -> flo
     return _to_canonical(number, spelled, canonical, raw, dimension)
 
 
+# Parts lists often write units in one case ("12PF", "16MHZ", "100UW", "1MOHM"). Read
+# case-blind, these have one sensible meaning per column: nobody specifies petafarads,
+# millihertz or megawatts for a crystal. Keys are lower case; values are pint spellings.
+_CASE_BLIND: Final[dict[str, dict[str, str]]] = {
+    "capacitance": {"f": "F", "ff": "fF", "pf": "pF", "nf": "nF", "uf": "uF"},
+    "frequency": {"hz": "Hz", "khz": "kHz", "mhz": "MHz", "ghz": "GHz"},
+    "power": {"w": "W", "nw": "nW", "uw": "uW", "mw": "mW"},
+    "inductance": {"h": "H", "uh": "uH", "mh": "mH", "kh": "kH"},
+    "transconductance": {
+        "s": "S",
+        "ms": "mS",
+        "us": "uS",
+        "a/v": "A/V",
+        "ma/v": "mA/V",
+        "ua/v": "uA/V",
+        "mho": "S",
+        "mmho": "mS",
+        "umho": "uS",
+    },
+    "voltage": {"v": "V", "mv": "mV", "uv": "uV"},
+}
+
+
 def _spell_for_pint(unit: str, dimension: str) -> str:
-    """Map trade spellings to pint's: 'R'/'Ohm' -> ohm, 'mA/V' stays, 'yr' -> year."""
+    """Map trade spellings to pint's: 'R'/'Ohm' -> ohm, 'PF' -> pF, 'yr' -> year."""
     compact = unit.replace(" ", "")
+    table = _CASE_BLIND.get(dimension)
+    if table is not None and compact.lower() in table:
+        return table[compact.lower()]
     if dimension == "resistance":
+        if compact in ("MOHM", "MOHMS", "MEG", "MΩ"):
+            return "Mohm"  # all capitals: a parts list's mega, not milli
+        if compact.lower() in ("kohm", "kohms", "k"):
+            return "kohm"
         lowered = compact.lower()
         for prefix in ("", "m", "k", "M"):
             if compact in (f"{prefix}R", f"{prefix}ohms", f"{prefix}Ohm", f"{prefix}Ohms"):
@@ -552,6 +591,8 @@ def _parse_range_uncached(text: str) -> tuple[float, float]:
     if len(text) > _MAX_TEXT:
         raise UnitError("too long")
     cleaned = text.strip().strip("[]()").replace("\u2212", "-").strip()
+    cleaned = re.sub(r"^(?:from|between)\s+", "", cleaned, flags=re.IGNORECASE)
+    cleaned = re.sub(r"\s+and\s+", " to ", cleaned, flags=re.IGNORECASE)
     parts = [part for part in _RANGE_SEPARATORS.split(cleaned, maxsplit=1) if part.strip()]
     if len(parts) != 2:
         raise UnitError("not a range")

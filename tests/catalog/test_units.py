@@ -81,6 +81,22 @@ from catalog.units import (
         ("-40℃", "temperature", -40.0),
         ("5000+", "count", 5000.0),
         ("0,55 €", "money", 0.55),
+        # One-case spellings from parts lists mean the only sensible prefix for a crystal:
+        # 12PF is 12 pF (not petafarad), 16MHZ is 16 MHz, 100UW is 100 µW.
+        ("12PF", "capacitance", 12e-12),
+        ("12 pf", "capacitance", 12e-12),
+        ("16MHZ", "frequency", 16e6),
+        ("100UW", "power", 100e-6),
+        ("1 MOHM", "resistance", 1e6),
+        ("4.7 KOHM", "resistance", 4.7e3),
+        ("2 mohm", "resistance", 2e-3),  # written in exact SI case: milli stays milli
+        ("17MS", "transconductance", 17e-3),
+        # A nominal with its spread is read as the nominal.
+        ("-0.035±0.005 ppm/°C²", "ppm_per_c2", -0.035),
+        ("25±5 °C", "temperature", 25.0),
+        ("12 pF ± 0.5 pF", "capacitance", 12e-12),
+        ("±3ppm 1st year", "ppm", 3.0),
+        ("1 ppm per year", "ppm", 1.0),
     ],
 )
 def test_parse_examples(text: str, dimension: str, expected: float) -> None:
@@ -158,6 +174,8 @@ def test_registry_is_shared() -> None:
         ("[-40, 85]", (-40.0, 85.0)),
         ("−40 to +125 °C", (-40.0, 125.0)),  # typographic minus
         ("-40 ~ +85℃", (-40.0, 85.0)),
+        ("from -40 to 85 °C", (-40.0, 85.0)),
+        ("between -40 and +85 °C", (-40.0, 85.0)),
         # NIST SP 811: t/°C = (t/°F - 32) * 5/9; unit given once applies to both ends
         ("-40 to 185 °F", (-40.0, 85.0)),
     ],
