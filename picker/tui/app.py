@@ -247,6 +247,7 @@ class PickerApp(App[int]):
 
     def _rerank(self) -> None:
         if self.loaded is not None and self.brief is not None:
+            self._update_status(f"re-ranking {len(self.loaded.parts):,} parts…")
             self.rank_now(self.loaded.parts, self.brief)
 
     @work(thread=True, exclusive=True, group="rank", exit_on_error=False)
@@ -360,18 +361,26 @@ class PickerApp(App[int]):
             self.call_from_thread(self._show_ruled_out, frame)
 
     def _show_ruled_out(self, frame: pd.DataFrame) -> None:
-        shortlist = self.shortlist
-        same = self._ruled_out_view is not None and shortlist is self._ruled_source
+        same = self._ruled_out_view is not None and self.shortlist is self._ruled_source
         self._ruled_out_view = frame
-        self._ruled_source = shortlist
+        self._ruled_source = self.shortlist
+        self.query_one(RuledOutView).show(frame, same_ranking=same)
 
-        def sentence(key: int) -> str:
-            if shortlist is None:
-                return ""
+    @on(RuledOutView.NeedReasons)
+    def _reasons_wanted(self, event: RuledOutView.NeedReasons) -> None:
+        if self.shortlist is not None:
+            self.write_reasons(event.view, self.shortlist, event.keys)
+
+    @work(thread=True, group="reasons", exit_on_error=False)
+    def write_reasons(
+        self, view: RuledOutView, shortlist: Shortlist, keys: tuple[int, ...]
+    ) -> None:
+        sentences = {}
+        for key in keys:
             reasons = self.core.reasons_at(shortlist, key)
-            return reasons[0] if reasons else ""
-
-        self.query_one(RuledOutView).show(frame, sentence, same_ranking=same)
+            sentences[key] = reasons[0] if reasons else ""
+        if shortlist is self.shortlist:
+            self.call_from_thread(view.add_reasons, sentences)
 
     # -------------------------------------------------------------- alternates
     def action_alternates(self) -> None:
@@ -381,14 +390,19 @@ class PickerApp(App[int]):
         self.action_tab("tab-alternates")
         if mpn is not None:
             self.query_one("#alt-reference", Input).value = mpn
-            self.find_alternates(mpn)
+            self.show_alternates_for(mpn)
         else:
             self.query_one("#alt-reference", Input).focus()
 
     @on(Input.Submitted, "#alt-reference")
     def _alt_submitted(self, event: Input.Submitted) -> None:
         if event.value.strip():
-            self.find_alternates(event.value.strip())
+            self.show_alternates_for(event.value.strip())
+
+    def show_alternates_for(self, text: str) -> None:
+        """Compare every part against `text` (fuzzy part number) in a worker."""
+        self.query_one("#alt-note", Static).update(f"Comparing every part against '{text}'…")
+        self.find_alternates(text)
 
     @work(thread=True, exclusive=True, group="alternates", exit_on_error=False)
     def find_alternates(self, text: str) -> None:

@@ -2,11 +2,9 @@
 
 from __future__ import annotations
 
-import contextlib
-from collections.abc import Callable
-
 import numpy as np
 import pandas as pd
+from textual.message import Message
 
 from picker.tui.model import Alternate
 from picker.tui.rows import Cells, RowList
@@ -27,33 +25,42 @@ def fit_cells(fit: str) -> tuple[str, str | None]:
 class RuledOutView(RowList):
     """Ruled-out parts: part number, package and the most fundamental reason.
 
-    The reason sentence carries the part's own numbers, so it is asked of the core only for
-    the rows on screen (and remembered); the short rule label stands in until then.
+    The reason sentence carries the part's own numbers and costs a little to write, so the
+    view asks for sentences (`NeedReasons`) only for the rows it draws, shows the short
+    rule label until they arrive, and remembers them.
     """
 
     empty_text = "no part is ruled out (or none matches the filter)"
+
+    class NeedReasons(Message):
+        """Sentences wanted for these keys (see `add_reasons`)."""
+
+        def __init__(self, view: RuledOutView, keys: tuple[int, ...]) -> None:
+            super().__init__()
+            self.view = view
+            self.keys = keys
 
     def __init__(self, *, id: str | None = None) -> None:
         super().__init__(id=id)
         self._frame = pd.DataFrame({"key": [], "mpn": [], "package": [], "first_reason": []})
         self._keys: np.ndarray = np.array([], dtype=np.int64)
-        self._sentence: Callable[[int], str] | None = None
         self._sentences: dict[int, str] = {}
+        self._wanted: set[int] = set()
 
-    def show(
-        self,
-        frame: pd.DataFrame,
-        sentence: Callable[[int], str] | None = None,
-        *,
-        same_ranking: bool = False,
-    ) -> None:
+    def show(self, frame: pd.DataFrame, *, same_ranking: bool = False) -> None:
         """Show ruled-out rows (columns key, mpn, package, first_reason; any index)."""
         self._frame = frame
         self._keys = frame["key"].to_numpy(dtype=np.int64)
-        self._sentence = sentence
         if not same_ranking:
             self._sentences = {}
+        self._wanted = set()
         self.set_row_count(len(frame))
+
+    def add_reasons(self, sentences: dict[int, str]) -> None:
+        """Sentences for some keys arrived: draw them."""
+        self._sentences.update(sentences)
+        self._wanted.difference_update(sentences)
+        self.refresh()
 
     def _text(self, column: str, index: int) -> str:
         return str(self._frame[column].iloc[index])
@@ -70,13 +77,16 @@ class RuledOutView(RowList):
 
     def _reason(self, index: int) -> str:
         key = int(self._keys[index])
-        if key not in self._sentences:
-            text = self._text("first_reason", index)
-            if self._sentence is not None:
-                with contextlib.suppress(KeyError, IndexError, ValueError):
-                    text = self._sentence(key)
-            self._sentences[key] = text
-        return self._sentences[key]
+        if key in self._sentences:
+            return self._sentences[key]
+        if not self._wanted:
+            self.call_later(self._ask)
+        self._wanted.add(key)
+        return self._text("first_reason", index)
+
+    def _ask(self) -> None:
+        if self._wanted:
+            self.post_message(self.NeedReasons(self, tuple(sorted(self._wanted))))
 
     def _mpn_width(self, width: int) -> int:
         return min(max(width // 4, 12), 22)

@@ -167,6 +167,17 @@ async def test_find_jumps_to_a_ruled_out_part(real_app: PickerApp) -> None:
         assert "12 MHz" in detail  # the reason names the wrong frequency
 
 
+async def test_ruled_out_rows_get_their_reason_sentences(real_app: PickerApp) -> None:
+    async with real_app.run_test(size=(80, 24)) as pilot:
+        await settle(real_app, pilot)
+        await pilot.press("r")
+        await settle(real_app, pilot)
+        view = real_app.query_one(RuledOutView)
+        lines = [view.render_line(y).text for y in range(1, view.row_count + 1)]
+        # The short rule label is replaced by the sentence with the part's own numbers.
+        assert any("MB12-F" in line and "12 MHz" in line for line in lines), lines
+
+
 async def test_ruled_out_filter(real_app: PickerApp) -> None:
     async with real_app.run_test(size=(80, 24)) as pilot:
         await settle(real_app, pilot)
