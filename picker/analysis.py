@@ -326,7 +326,10 @@ def _choose_caps(cl_spec: np.ndarray, series: np.ndarray, brief: Brief, n: int) 
         per_pin = 2.0 * values if internal.applies_to == "load" else values
         cl_options = pierce.board_load_capacitance(per_pin + pin, per_pin + pin, stray)
         # Pick the setting whose board CL lands nearest the part's CL.
-        best = np.argmin(np.abs(cl_options[None, :] - target[:, None]), axis=1)
+        # Once per distinct target CL (a catalog has few), then spread back to the rows.
+        back, distinct = pd.factorize(np.where(np.isfinite(target), target, -1.0), sort=False)
+        distinct = np.asarray(distinct, dtype=float)
+        best = np.argmin(np.abs(cl_options[None, :] - distinct[:, None]), axis=1)[back]
         miss = np.abs(cl_options[best] - target)
         realisable = np.isfinite(target) & (miss <= internal_tolerance_f(cl_options))
         return {
