@@ -24,6 +24,7 @@ from textual.widgets import (
     Input,
     LoadingIndicator,
     ProgressBar,
+    Select,
     Static,
     TabbedContent,
     TabPane,
@@ -630,13 +631,14 @@ class PickerApp(App[int]):
                 self.load_sheet(mpn)
 
     def action_leave_field(self) -> None:
-        if isinstance(self.focused, Input):
+        """Escape: leave a text field for the list (or pane) of the same tab."""
+        if isinstance(self.focused, Input | Select):
             tabs = self.query_one("#tabs", TabbedContent)
-            target = {"tab-ruled-out": "#ruled-out", "tab-alternates": "#alternates"}.get(
-                str(tabs.active), "#shortlist"
-            )
-            if target == "#shortlist":
-                tabs.active = "tab-shortlist"
+            target = {
+                "tab-brief": "#brief",
+                "tab-ruled-out": "#ruled-out",
+                "tab-alternates": "#alternates",
+            }.get(str(tabs.active), "#shortlist")
             self.set_focus(self.query(target).first())
 
     def command_list(self) -> list[tuple[str, str, str]]:

@@ -240,3 +240,16 @@ async def test_copy_part_number_notifies(frozen_app: PickerApp) -> None:
         assert copied[1].startswith(f"Y1, {first}")
         messages = [n.message for n in frozen_app._notifications]
         assert any(m == f"Copied part number {first}" for m in messages)
+
+
+async def test_escape_leaves_a_field_and_letters_switch_tabs_again(real_app: PickerApp) -> None:
+    async with real_app.run_test(size=(80, 24)) as pilot:
+        await settle(real_app, pilot)
+        await pilot.press("b")
+        field = gm_input(real_app)
+        field.focus()
+        await pilot.press("s")  # typed into the field, not a tab switch
+        assert field.value.endswith("s")
+        await pilot.press("escape", "s")
+        assert real_app.query_one("#tabs", TabbedContent).active == "tab-shortlist"
+        assert isinstance(real_app.focused, ShortlistView)
