@@ -305,7 +305,7 @@ def closest_headers(field: str, headers: Sequence[str], *, limit: int = 3) -> li
     scored: dict[str, float] = {}
     for query in queries:
         for header, score, _ in process.extract(
-            query, choices, scorer=fuzz.WRatio, processor=utils.default_process, limit=limit
+            query, choices, scorer=fuzz.ratio, processor=utils.default_process, limit=limit
         ):
             scored[header] = max(scored.get(header, 0.0), float(score))
     ranked = sorted(scored.items(), key=lambda item: -item[1])
