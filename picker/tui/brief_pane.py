@@ -43,6 +43,7 @@ class BriefPane(VerticalScroll, can_focus=True):
     BriefPane #brief-status.-bad { color: $error; }
     BriefPane #brief-preset { width: 1fr; }
     BriefPane #brief-fields { height: auto; }
+    BriefPane #brief-clause { height: auto; color: $text-muted; padding-left: 24; }
     """
 
     class Valid(Message):
@@ -72,6 +73,7 @@ class BriefPane(VerticalScroll, can_focus=True):
             yield Select[str](
                 [], prompt="(none: budget from the brief)", id="brief-preset", compact=True
             )
+        yield Static("", id="brief-clause", markup=False)
         yield Vertical(id="brief-fields")
 
     @property
@@ -118,6 +120,7 @@ class BriefPane(VerticalScroll, can_focus=True):
         preset = self._data.get("preset")
         if isinstance(preset, str) and any(p.name == preset for p in self._presets):
             select.value = preset
+        self._show_clause(preset if isinstance(preset, str) else None)
         self._set_status(
             f"Brief {path_label}: tab into a field and edit it (escape leaves); "
             "ctrl+s saves, ctrl+o opens another.",
@@ -168,6 +171,7 @@ class BriefPane(VerticalScroll, can_focus=True):
         if self._loading:
             return
         data = dict(self._data)
+        self._show_clause(None if event.value is Select.NULL else str(event.value))
         if event.value is Select.NULL:
             data.pop("preset", None)
             self._set_input(("preset",), "")
@@ -184,6 +188,14 @@ class BriefPane(VerticalScroll, can_focus=True):
                 data["budget"] = f"{preset.budget_ppm:g} ppm"
                 self._set_input(("budget",), data["budget"])
         self._try(data)
+
+    def _show_clause(self, name: str | None) -> None:
+        """Cite where the preset's budget comes from, right under the choice."""
+        preset = next((p for p in self._presets if p.name == name), None)
+        text = "" if preset is None else f"source: {preset.clause}"
+        clause = self.query_one("#brief-clause", Static)
+        clause.update(text)
+        clause.display = bool(text)
 
     def _set_input(self, path: tuple[str, ...], text: object) -> None:
         for index, brief_field in enumerate(self._fields):

@@ -105,3 +105,16 @@ async def test_choosing_a_preset_sets_the_budget(real_app: PickerApp) -> None:
         await settle(real_app, pilot)
         assert real_app.brief.budget_ppm == 2500.0  # type: ignore[attr-defined]
         assert real_app.shortlist is not None and real_app.shortlist.budget_ppm == 2500.0
+
+
+async def test_the_preset_clause_is_cited_on_screen(real_app: PickerApp) -> None:
+    from textual.widgets import Static
+
+    async with real_app.run_test(size=(80, 24)) as pilot:
+        await settle(real_app, pilot)
+        real_app.action_preset("100base_tx")
+        await settle(real_app, pilot)
+        clause = str(real_app.query_one("#brief-clause", Static).render())
+        # IEEE 802.3 clauses 24–25: 100BASE-TX ±50 ppm.
+        assert "IEEE 802.3" in clause
+        assert real_app.brief.budget_ppm == 50.0  # type: ignore[attr-defined]

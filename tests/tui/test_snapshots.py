@@ -69,3 +69,12 @@ def test_help(snap_compare, tmp_path: Path) -> None:  # type: ignore[no-untyped-
 
 def test_too_small(snap_compare, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
     assert snap_compare(frozen(tmp_path), terminal_size=(50, 12), run_before=ready)
+
+
+def test_alternates(snap_compare, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    async def run_before(pilot) -> None:  # type: ignore[no-untyped-def]
+        await ready(pilot)
+        await pilot.press("a")
+        await ready(pilot)
+
+    assert snap_compare(frozen(tmp_path), terminal_size=(80, 24), run_before=run_before)
