@@ -9,6 +9,7 @@ Windows-1252 -> Latin-1, decided per line when a file mixes encodings.
 from __future__ import annotations
 
 import os
+import stat
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Final
@@ -64,13 +65,33 @@ def read_catalog_bytes(path: Path, limits: Limits) -> bytes:
             "a catalog file may have; split it into several files"
         )
     try:
-        with open(path, "rb") as handle:
-            data = handle.read(limits.max_file_bytes + 1)
+        data = _read_capped(path, limits.max_file_bytes + 1)
     except OSError as error:
         raise CatalogError(f"{shown}: cannot read ({error.strerror or error})") from None
     if len(data) > limits.max_file_bytes:  # grew while we looked, or a device file
         raise CatalogError(f"{shown}: larger than {limits.max_file_bytes / 1e6:.0f} MB")
+    if not data and stat.S_ISFIFO(os.stat(path).st_mode):
+        raise CatalogError(f"{shown}: a named pipe with nothing written to it")
     return data
+
+
+def _read_capped(path: Path, most: int) -> bytes:
+    """Up to ``most`` bytes of a file, a pipe or a device.
+
+    Opened non-blocking: a named pipe with no writer would otherwise block open() forever;
+    with the flag it opens at once and reads as empty. Reads are blocking again after the
+    open, so a pipe whose writer is still producing (``--catalog <(command)``) is read whole.
+    """
+    descriptor = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
+    try:
+        if getattr(os, "O_NONBLOCK", 0):
+            os.set_blocking(descriptor, True)
+        with os.fdopen(descriptor, "rb") as handle:
+            descriptor = -1
+            return handle.read(most)
+    finally:
+        if descriptor >= 0:
+            os.close(descriptor)
 
 
 def _utf16_without_bom(data: bytes) -> str | None:
