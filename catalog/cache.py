@@ -38,6 +38,7 @@ import importlib
 import json
 import os
 import shutil
+import stat
 import tempfile
 import time
 from collections.abc import Callable, Iterator, Sequence
@@ -49,6 +50,8 @@ from typing import TYPE_CHECKING, Any
 import pandas as pd
 import pyarrow as pa
 import pyarrow.parquet as pq
+
+from catalog.rawtable import DEFAULT_LIMITS
 
 if TYPE_CHECKING:
     from catalog.reader import LoadResult
@@ -194,6 +197,10 @@ def catalog_key(paths: Sequence[str | Path], *, mapping: str | Path | None = Non
         if label.startswith("dir:"):
             continue
         before = os.stat(path)
+        if not stat.S_ISREG(before.st_mode) or before.st_size > DEFAULT_LIMITS.max_file_bytes:
+            # A pipe or device would be consumed (or never end) and an oversized file read
+            # whole just to hash it: skip the cache and let the reader refuse or read it.
+            raise OSError(f"{path}: not a regular catalog file within the size limit")
         _update(hasher, file_digest(path))
         sources.append(SourceStat(str(path), before.st_size, before.st_mtime_ns))
     return CatalogKey(hasher.hexdigest(), tuple(sources))
