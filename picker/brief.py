@@ -32,6 +32,7 @@ from __future__ import annotations
 
 import itertools
 import math
+import os
 import unicodedata
 from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass, field, fields
@@ -1441,7 +1442,11 @@ def load_brief(path: str | Path) -> Brief:
 
 def _read_text(path: Path, source: str) -> str:
     try:
-        with path.open("rb") as handle:
+        # Non-blocking open: a named pipe with no writer would block open() forever.
+        descriptor = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
+        if getattr(os, "O_NONBLOCK", 0):
+            os.set_blocking(descriptor, True)
+        with os.fdopen(descriptor, "rb") as handle:
             raw = handle.read(MAX_BRIEF_BYTES + 1)
     except IsADirectoryError:
         raise BriefError("is a directory, not a brief file", source=source) from None
