@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import argparse
 import sys
+import textwrap
 import traceback
 from collections.abc import Sequence
 from importlib import resources
@@ -23,12 +24,14 @@ EXIT_OK = 0
 EXIT_FINDING = 1
 EXIT_USAGE = 2
 
-EPILOG = (
-    "Caution: "
-    + report.CAUTION
-    + "\n\nWithout --catalog the bundled demo catalog is used; without --brief the bundled "
-    "demo brief. Exit codes: 0 success, 1 a finding (nothing fits, lint problems), 2 bad "
-    "usage or unreadable input."
+EPILOG = "\n\n".join(
+    textwrap.fill(paragraph, width=78)
+    for paragraph in (
+        "Caution: " + report.CAUTION,
+        "Without --catalog the bundled demo catalog is used; without --brief the bundled "
+        "demo brief. Exit codes: 0 success, 1 a finding (nothing fits, lint problems), 2 bad "
+        "usage or unreadable input.",
+    )
 )
 
 
