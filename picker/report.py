@@ -322,6 +322,11 @@ def ranking_table(ranking: Ranking, frame: pd.DataFrame, *, total_shown: str = "
 _PROVENANCE_OF = {"c0_f": "c0", "c1_f": "c1", "drive_rating_w": "drive_level"}
 
 
+def _given(brief: Brief, key: str) -> str:
+    """Origin of a brief figure: "brief" when the file gave it, "default" when it did not."""
+    return "default" if key in brief.defaulted else "brief"
+
+
 def part_sheet(row: pd.Series, brief: Brief) -> str:
     """Every figure of one part with where it came from, for ``picker analyze``."""
     est = set(estimated_fields(row))
@@ -391,9 +396,9 @@ def part_sheet(row: pd.Series, brief: Brief) -> str:
             ("load capacitors Ca + Cb", caps_text + ("" if realisable else " (!)"), caps_origin),
             ("ideal equal value", fmt(row["ideal_cap_f"], "capacitance"), "computed"),
             ("stray across the crystal", fmt(brief.board.stray_capacitance_f, "capacitance"),
-             "brief"),
+             _given(brief, "board.stray_capacitance")),
             ("pin capacitance (each)", fmt(brief.amplifier.pin_capacitance_f, "capacitance"),
-             "brief"),
+             _given(brief, "amplifier.pin_capacitance")),
             ("board load CL", fmt(row["load_capacitance_f"], "capacitance"), "computed"),
             ("pulling from nominal", f"{num(row['pulling_ppm'], 3)} ppm", "computed"),
             ("trim sensitivity",
@@ -618,15 +623,16 @@ def lint_table(result: Any) -> str:
     errors = sum(1 for p in result.problems if p.severity == "error")
     warnings = len(result.problems) - errors
     lines.append(f"{errors} errors (rows not loaded), {warnings} warnings (rows loaded)")
-    lines += [f"{p.severity}: {p.one_line()}" for p in result.problems]
+    for p in result.problems:
+        lines += wrap(f"{p.severity}: {p.one_line()}", indent="", hang="    ")
     return "\n".join(lines) + "\n"
 
 
 def presets_table(rows: Sequence[Mapping[str, str]]) -> str:
     lines = []
     for row in rows:
-        lines.append(f"{row['name']:<14} {_clip(row['title'], 40):<40} {row['budget']}")
-        lines.extend(wrap(row["clause"], indent="               "))
+        lines.append(_clip(f"{row['name']:<14} {row['title']}", WIDTH))
+        lines += wrap(f"budget {row['budget']}; {row['clause']}", indent="               ")
     return "\n".join(lines) + "\n"
 
 
