@@ -70,7 +70,7 @@ class PickerApp(App[int]):
         Binding("slash", "find", "Find", id="picker.find"),
         Binding("b", "tab('tab-brief')", "Brief", id="picker.brief", show=False),
         Binding("s", "tab('tab-shortlist')", "Shortlist", id="picker.shortlist", show=False),
-        Binding("p", "tab('tab-sheet')", "Part sheet", id="picker.sheet", show=False),
+        Binding("p", "sheet", "Part sheet", id="picker.sheet", show=False),
         Binding("r", "tab('tab-ruled-out')", "Ruled out", id="picker.ruled_out", show=False),
         Binding("a", "alternates", "Alternates", id="picker.alternates"),
         Binding("e", "export", "Export", id="picker.export"),
@@ -107,6 +107,7 @@ class PickerApp(App[int]):
         self._filter_timer: Timer | None = None
         self._presets: tuple[Preset, ...] = ()
         self._detail_text = ""
+        self._sheet_request: str | None = None
 
     # ----------------------------------------------------------------- layout
     def compose(self) -> ComposeResult:
@@ -262,6 +263,8 @@ class PickerApp(App[int]):
         self.shortlist = shortlist
         view = self.query_one(ShortlistView)
         view.show(shortlist, keep=view.current_mpn())
+        if self._sheet_request is not None:
+            self.load_sheet(self._sheet_request)
         self._apply_ruled_filter()
         self._update_status()
 
@@ -295,7 +298,8 @@ class PickerApp(App[int]):
             f"{self.shortlist.budget_ppm:.4g} ppm · enter: sheet"
         )
         detail.update(self._detail_text)
-        self.load_sheet(mpn)
+        if self._sheet_request is None:
+            self.load_sheet(mpn)
 
     @work(thread=True, exclusive=True, group="sheet", exit_on_error=False)
     def load_sheet(self, mpn: str) -> None:
@@ -338,10 +342,25 @@ class PickerApp(App[int]):
         detail.update("\n".join(lines))
 
     def on_key(self, event: object) -> None:
-        key = getattr(event, "key", "")
+        if getattr(event, "key", "") != "enter":
+            return
         focused = self.focused
-        if key == "enter" and isinstance(focused, ShortlistView) and focused.row_count:
-            self.action_tab("tab-sheet")
+        if isinstance(focused, ShortlistView) and focused.row_count:
+            self.action_sheet()
+        elif isinstance(focused, RuledOutView | AlternatesView) and focused.row_count:
+            # Any listed part can have its sheet, also one that is ruled out.
+            mpn = self._highlighted_mpn()
+            if mpn is not None:
+                self.action_sheet(mpn)
+
+    def action_sheet(self, mpn: str | None = None) -> None:
+        """Open the part sheet: for `mpn`, else for the highlighted shortlist part."""
+        self._sheet_request = mpn
+        wanted = mpn or self.query_one(ShortlistView).current_mpn()
+        shown = self.query_one(PartSheetView).sheet
+        if wanted is not None and (shown is None or shown.mpn != wanted):
+            self.load_sheet(wanted)
+        self.action_tab("tab-sheet")
 
     # --------------------------------------------------------------- ruled out
     @on(Input.Changed, "#ruled-filter")
@@ -625,7 +644,7 @@ class PickerApp(App[int]):
     @on(TabbedContent.TabActivated)
     def _tab_activated(self, event: TabbedContent.TabActivated) -> None:
         if event.pane.id == "tab-sheet":
-            mpn = self.query_one(ShortlistView).current_mpn()
+            mpn = self._sheet_request or self.query_one(ShortlistView).current_mpn()
             sheet = self.query_one(PartSheetView).sheet
             if mpn is not None and (sheet is None or sheet.mpn != mpn):
                 self.load_sheet(mpn)
@@ -648,7 +667,7 @@ class PickerApp(App[int]):
             ("Find part number", "fuzzy search; jumps to the part", "find"),
             ("Show brief", "edit the circuit and its limits", "tab('tab-brief')"),
             ("Show shortlist", "ranked parts that fit", "tab('tab-shortlist')"),
-            ("Show part sheet", "every figure for the highlighted part", "tab('tab-sheet')"),
+            ("Show part sheet", "every figure for the highlighted part", "sheet"),
             ("Show ruled out", "every failed part with its reasons", "tab('tab-ruled-out')"),
             ("Alternates for highlighted part", "drop-in candidates", "alternates"),
             ("Export shortlist", "CSV, JSON or Markdown file", "export"),
@@ -670,7 +689,7 @@ class PickerApp(App[int]):
             ("b s p r", "brief, shortlist, part sheet, ruled out"),
             ("a", "alternates for the highlighted part"),
             ("↑ ↓ PgUp PgDn", "move in a list (also j, k, Home, End)"),
-            ("enter", "on the shortlist: open the part sheet"),
+            ("enter", "on any list: the part sheet of that part (also ruled-out ones)"),
             ("e", "export the shortlist (CSV, JSON, Markdown)"),
             ("c", "copy the part number to the clipboard"),
             ("m", "copy a bill-of-materials line"),

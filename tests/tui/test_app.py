@@ -253,3 +253,23 @@ async def test_escape_leaves_a_field_and_letters_switch_tabs_again(real_app: Pic
         await pilot.press("escape", "s")
         assert real_app.query_one("#tabs", TabbedContent).active == "tab-shortlist"
         assert isinstance(real_app.focused, ShortlistView)
+
+
+async def test_enter_on_a_ruled_out_part_opens_its_sheet(real_app: PickerApp) -> None:
+    from picker.tui.sheet import PartSheetView
+
+    async with real_app.run_test(size=(80, 24)) as pilot:
+        await settle(real_app, pilot)
+        await pilot.press("r")
+        view = real_app.query_one(RuledOutView)
+        view.cursor = view.index_of("MB12-F") or 0
+        await pilot.press("enter")
+        await settle(real_app, pilot)
+        assert real_app.query_one("#tabs", TabbedContent).active == "tab-sheet"
+        sheet = real_app.query_one(PartSheetView).sheet
+        assert sheet is not None and sheet.mpn == "MB12-F"
+        assert sheet.status == "ruled_out" and "12 MHz" in sheet.reasons[0]
+        # p brings back the sheet of the highlighted shortlist part.
+        await pilot.press("p")
+        await settle(real_app, pilot)
+        assert real_app.query_one(PartSheetView).sheet.mpn == "TK16-A"  # type: ignore[union-attr]
