@@ -320,3 +320,16 @@ def test_python_dash_m_runs(files: dict[str, str]) -> None:
         env={"PICKER_NO_CACHE": "1", "PATH": ""},
     )
     assert done.returncode == 0 and done.stdout
+
+
+@pytest.mark.parametrize(
+    "argv",
+    [("presets",), ("--help",), ("rank", "--all", "--top", "30"), ("alternates", "OR00001A")],
+)
+def test_text_output_fits_80_columns(
+    capsys: pytest.CaptureFixture[str], argv: tuple[str, ...]
+) -> None:
+    cli.main(list(argv))
+    out = capsys.readouterr().out
+    assert out
+    assert max(len(line) for line in out.splitlines()) <= 80
