@@ -273,3 +273,34 @@ async def test_enter_on_a_ruled_out_part_opens_its_sheet(real_app: PickerApp) ->
         await pilot.press("p")
         await settle(real_app, pilot)
         assert real_app.query_one(PartSheetView).sheet.mpn == "TK16-A"  # type: ignore[union-attr]
+
+
+async def test_a_missing_catalog_is_a_message_not_a_crash(tmp_path: Path) -> None:
+    from picker.tui.core import PickerCore
+
+    app = PickerApp(PickerCore(), [tmp_path / "missing.csv"], tmp_path / "brief.yaml")
+    async with app.run_test(size=(80, 24)) as pilot:
+        await settle(app, pilot)
+        text = str(app.query_one("#loading-text", Static).render())
+        assert "missing.csv" in text and "ctrl+q" in text
+        await pilot.press("s", "a", "/", "e", "c")  # nothing to act on: nothing breaks
+        await pilot.press("ctrl+q")
+    assert app.return_code == 0
+
+
+async def test_a_broken_brief_opens_on_the_brief_with_the_error(
+    catalog_files: tuple[Path, Path], monkeypatch: object
+) -> None:
+    from picker.tui.core import PickerCore
+
+    catalog, brief = catalog_files
+    brief.write_text(brief.read_text().replace("gm: 20 mA/V", "gm: 20 parsecs"))
+    app = PickerApp(PickerCore(), [catalog], brief)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await settle(app, pilot)
+        assert app.query_one("#tabs", TabbedContent).active == "tab-brief"
+        assert any("amplifier.gm" in n.message for n in app._notifications)
+        # Fixing the field in place brings the shortlist.
+        await type_into(pilot, gm_input(app), "20 mA/V")
+        await settle(app, pilot)
+        assert list(app.query_one(ShortlistView).mpns[:1]) == ["TK16-A"]
