@@ -502,13 +502,12 @@ def _equivalent_gm(
     amp, board = brief.amplifier, brief.board
     stated = abs(_given(amp.negative_resistance_ohm, "negative_resistance"))
     cl = _given(amp.negative_resistance_cl_f, "negative_resistance")
-    pin, stray = amp.pin_capacitance_f, board.stray_capacitance_f
+    stray = board.stray_capacitance_f
     each = 2.0 * (cl - stray)  # gate and drain node capacitance, pins included
     cg = np.full(omega.size, each)
     c3 = c0 + stray
     gm = pierce.critical_transconductance(omega, stated, cg, cg, c3, 0.0, g2, g3)
     ceiling = pierce.optimum_transconductance(omega, cg, cg, c3)
-    del pin
     return np.where(np.isfinite(gm), gm, ceiling)
 
 

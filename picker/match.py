@@ -7,9 +7,8 @@ part numbers answers in well under a second:
 2. exact after rapidfuzz's ``default_process`` normalisation (case, punctuation, spaces:
    ``"abc-123 "`` finds ``"ABC123"`` only if the processed forms agree) when that is unique;
 3. fuzzy: ``rapidfuzz.process.cdist`` (fuzz.ratio) with a score cutoff; one clear winner is
-   used (the
-   caller tells the user which part was taken), otherwise the closest candidates are returned
-   so the caller can list them.
+   used (the caller tells the user which part was taken), otherwise the closest candidates
+   are returned so the caller can list them.
 """
 
 from __future__ import annotations
