@@ -22,6 +22,7 @@ __all__ = [
     "Column",
     "Limits",
     "RawTable",
+    "cells_equal",
     "columns_from_rows",
     "factorize_cells",
 ]
@@ -103,3 +104,10 @@ def factorize_cells(column: Column) -> tuple[np.ndarray, list[str]]:
         return codes, uniques
     codes, found = pd.factorize(np.asarray(column, dtype=object), use_na_sentinel=False)
     return np.asarray(codes, dtype=np.int64), [str(text) for text in found.tolist()]
+
+
+def cells_equal(column: Column, text: str) -> np.ndarray:
+    """Per row, whether the cell (stripped) equals ``text``."""
+    codes, uniques = factorize_cells(column)
+    hits = np.array([cell.strip() == text for cell in uniques], dtype=bool)
+    return hits[codes] if len(uniques) else np.zeros(len(codes), dtype=bool)

@@ -21,7 +21,7 @@ import pandas as pd
 from catalog.headers import HeaderMap, closest_headers, missing_required
 from catalog.plausibility import plausibility_problems
 from catalog.problems import CatalogError, Problem, Severity
-from catalog.rawtable import Column, RawTable, factorize_cells
+from catalog.rawtable import Column, RawTable, cells_equal, factorize_cells
 from catalog.schema import (
     CUT_SYNONYMS,
     FIELDS,
@@ -128,6 +128,9 @@ class _Outcome:
 
 
 _NO_VALUE: Final[_Outcome] = _Outcome(None)
+_MONTH: Final[re.Pattern[str]] = re.compile(
+    r"\b(?:jan|feb|mar|apr|may|jun|jul|aug|sep|oct|nov|dec)[a-z]*\b", re.IGNORECASE
+)
 
 
 def normalise_package(text: str) -> str:
@@ -289,13 +292,18 @@ def _choice_outcome(spec: FieldSpec) -> Callable[[str], _Outcome]:
             return _Outcome(table[key])
         if spec.name == "cut" and re.fullmatch(r"[A-Za-z]{1,4}(?:[- ]?cut)?", text.strip()):
             return _Outcome(text.strip().upper().removesuffix("CUT").strip(" -"))
+        hint = ""
         if spec.name == "pinout":
-            digits = re.findall(r"[1-4]", text)
+            digits = sorted(re.findall(r"[1-4]", text))
             if len(digits) == 2 and f"{digits[0]}-{digits[1]}" in ("1-3", "2-4", "1-4"):
                 return _Outcome(f"{digits[0]}-{digits[1]}")
+            if _MONTH.search(text):
+                hint = (
+                    " (a spreadsheet may have turned '1-3' into a date: format the column as text)"
+                )
         return _Outcome(
             "",
-            message=(f"'{text.strip()}' is not one of {', '.join(choices)}; left blank"),
+            message=(f"'{text.strip()}' is not one of {', '.join(choices)}; left blank{hint}"),
             severity="warning",
         )
 
@@ -404,6 +412,24 @@ def validate_table(
     # Every problem of a row is reported (fix them all in one pass), except on rows the
     # reader could not split at all.
     reader_bad = dropped.copy()
+    # A header row repeated inside the data (files pasted together) is not a part.
+    for binding in header_map.bindings:
+        if binding.field != "mpn" or not count:
+            continue
+        repeated = cells_equal(raw.columns[binding.index], binding.header) & ~dropped
+        for position in np.nonzero(repeated)[0].tolist():
+            problems.append(
+                Problem(
+                    raw.path,
+                    int(lines[position]),
+                    None,
+                    binding.header,
+                    "the header row is repeated here; line skipped",
+                    "warning",
+                )
+            )
+        dropped |= repeated
+        reader_bad |= repeated
     parsed: dict[str, _Column] = {}
     for done, binding in enumerate(header_map.bindings):
         if progress is not None:

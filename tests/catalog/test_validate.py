@@ -201,3 +201,20 @@ def test_positive_beta_is_flagged(write: Write) -> None:
     header = "Part Number,Freq,CL,Tol,Stability,Temp Range,ESR,Package,Beta"
     result = _load(write, "ZX-2,32.768 kHz,12.5 pF,20,,-40 to 85,70 kohm,2012,0.034", header=header)
     assert result.problems[0].field == "beta"
+
+
+def test_repeated_header_row_is_skipped_with_a_warning(write: Write) -> None:
+    result = _load(write, GOOD_ROW, DEMO_HEADER, GOOD_ROW.replace("ZX-16A", "ZX-16B"))
+    assert list(result.parts["mpn"]) == ["ZX-16A", "ZX-16B"]
+    (problem,) = result.problems
+    assert (problem.line, problem.severity) == (3, "warning")
+    assert "header row is repeated" in problem.message
+
+
+def test_pinout_turned_into_a_date_gets_a_hint(write: Write) -> None:
+    header = DEMO_HEADER + ",Pinout"
+    result = _load(
+        write, GOOD_ROW + ",3-Jan", GOOD_ROW.replace("ZX-16A", "ZX-16B") + ",3-1", header=header
+    )
+    assert list(result.parts["pinout"]) == ["", "1-3"]
+    assert "into a date" in result.problems[0].message
