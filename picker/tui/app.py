@@ -197,6 +197,16 @@ class PickerApp(App[int]):
         self.query_one("#loading-text", Static).update(text)
 
     def _load_failed(self, message: str) -> None:
+        if self.loaded is not None:
+            # A reload after a good load: the loading panel is hidden, so say it aloud and
+            # keep showing the last good catalog.
+            self.notify(
+                f"✘ {message}\nThe last catalog that loaded is still shown.",
+                title="Catalog",
+                severity="error",
+                timeout=10,
+            )
+            return
         self._set_loading_text(f"✘ {message}\n\nNothing could be loaded; press ctrl+q to quit.")
         self.query_one(LoadingIndicator).display = False
         self.query_one("#status-line", Static).update("picker — no catalog")

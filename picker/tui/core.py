@@ -21,7 +21,6 @@ from picker.tui.export import markdown_text
 from picker.tui.model import (
     Alternate,
     Alternates,
-    BriefField,
     DriftCurve,
     Figure,
     ImpedanceCurve,
@@ -187,11 +186,6 @@ class PickerCore:
         from catalog.units import parse_quantity
 
         return parse_quantity(text, dimension)  # type: ignore[arg-type]
-
-    def brief_fields(self, data: Mapping[str, object]) -> tuple[BriefField, ...]:
-        from picker.tui.brief_fields import flatten_brief
-
-        return tuple(f for f, _ in flatten_brief(data))
 
     def presets(self) -> tuple[Preset, ...]:
         from picker.presets import PRESETS

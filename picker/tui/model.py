@@ -10,7 +10,7 @@ pandas frames whose float columns are SI values.
 from __future__ import annotations
 
 from collections.abc import Callable, Mapping, Sequence
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from pathlib import Path
 from typing import Literal, Protocol
 
@@ -237,8 +237,6 @@ class Core(Protocol):
 
     def check_value(self, dimension: str, text: str) -> float: ...
 
-    def brief_fields(self, data: Mapping[str, object]) -> tuple[BriefField, ...]: ...
-
     def presets(self) -> tuple[Preset, ...]: ...
 
     def rank(self, parts: pd.DataFrame, brief: object) -> Shortlist: ...
@@ -260,13 +258,3 @@ class Core(Protocol):
     def bom_line(
         self, parts: pd.DataFrame, shortlist: Shortlist, brief: object, mpn: str
     ) -> str: ...
-
-
-@dataclass(frozen=True)
-class Session:
-    """The data on screen at one moment: catalog, the last valid brief, its shortlist."""
-
-    loaded: Loaded | None = None
-    brief_data: dict[str, object] = field(default_factory=dict)
-    brief: object = None
-    shortlist: Shortlist | None = None

@@ -6,6 +6,7 @@ import math
 
 import numpy as np
 from rich.text import Text
+from textual.app import ComposeResult
 from textual.containers import VerticalScroll
 from textual.widgets import Static
 
@@ -145,14 +146,14 @@ class PartSheetView(VerticalScroll, can_focus=True):
         self._sheet: PartSheet | None = None
         self._body = Static("Highlight a part in the shortlist to see its sheet.", id="sheet-body")
 
-    def compose(self):  # type: ignore[no-untyped-def]
+    def compose(self) -> ComposeResult:
         yield self._body
 
     @property
     def sheet(self) -> PartSheet | None:
         return self._sheet
 
-    def show(self, sheet: PartSheet | None, message: str = "") -> None:
+    def show(self, sheet: PartSheet | None) -> None:
         self._sheet = sheet
         self._render_body()
 

@@ -18,7 +18,6 @@ from picker.tui.export import export_text
 from picker.tui.model import (
     Alternate,
     Alternates,
-    BriefField,
     DriftCurve,
     Figure,
     ImpedanceCurve,
@@ -107,9 +106,6 @@ class FrozenCore:
         limits = data.get("limits")
         min_margin = float(str(limits.get("min_margin", 5))) if isinstance(limits, Mapping) else 5
         return {"gm": gm, "budget": budget, "min_margin": min_margin}
-
-    def brief_fields(self, data: Mapping[str, object]) -> tuple[BriefField, ...]:
-        return ()
 
     def presets(self) -> tuple[Preset, ...]:
         return (
