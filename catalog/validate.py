@@ -172,6 +172,11 @@ def check_required_columns(raw: RawTable, header_map: HeaderMap) -> None:
     )
 
 
+def _clip(text: str, size: int = 200) -> str:
+    """Raw text for a problem: enough to find the cell, never a whole huge cell."""
+    return text if len(text) <= size else text[: size - 3] + "..."
+
+
 def _is_missing(text: str) -> bool:
     return text.strip().lower() in MISSING_MARKERS
 
@@ -447,7 +452,7 @@ def validate_table(
                     raw.path,
                     int(lines[position]),
                     binding.field,
-                    str(parsed_column.raw[position]),
+                    _clip(str(parsed_column.raw[position])),
                     str(parsed_column.message[position])
                     + ("; row not loaded" if severity == "error" else ""),
                     "error" if severity == "error" else "warning",
@@ -545,7 +550,7 @@ def validate_table(
     outside = ((frequency < _FREQUENCY_FLOOR_HZ) | (frequency > _FREQUENCY_CEILING_HZ)) & ~dropped
     frequency_column = parsed.get("frequency")
     for position in np.nonzero(outside)[0].tolist():
-        raw_text = "" if frequency_column is None else str(frequency_column.raw[position])
+        raw_text = "" if frequency_column is None else _clip(str(frequency_column.raw[position]))
         problems.append(
             Problem(
                 raw.path,
