@@ -52,13 +52,17 @@ def read_catalog_bytes(path: Path, limits: Limits) -> bytes:
     """
     shown = str(path)
     try:
-        size = os.stat(path).st_size
+        status = os.stat(path)
+        size = status.st_size
     except FileNotFoundError:
         raise CatalogError(f"{shown}: no such file") from None
     except OSError as error:
         raise CatalogError(f"{shown}: cannot read ({error.strerror or error})") from None
-    if path.is_dir():
+    if stat.S_ISDIR(status.st_mode):
         raise CatalogError(f"{shown}: is a directory")
+    if not stat.S_ISREG(status.st_mode):
+        # A pipe or device would block or never end: only regular files are catalogs.
+        raise CatalogError(f"{shown}: not a regular file")
     if size > limits.max_file_bytes:
         raise CatalogError(
             f"{shown}: {size / 1e6:.1f} MB is larger than the {limits.max_file_bytes / 1e6:.0f} MB "

@@ -237,3 +237,20 @@ def test_random_yaml_text_gives_catalog_error_or_result(pieces: list[str]) -> No
     path.write_bytes("".join(pieces).encode("utf-8"))
     _load_or_error(path)
     os.remove(path)
+
+
+def test_fifo_is_refused_not_waited_on(tmp_path: Path) -> None:
+    fifo = tmp_path / "pipe.csv"
+    os.mkfifo(fifo)
+    start = time.perf_counter()
+    outcome = _load_or_error(fifo)
+    assert isinstance(outcome, CatalogError) and "not a regular file" in str(outcome)
+    assert time.perf_counter() - start < 5.0
+
+
+def test_problem_raw_text_is_clipped(write: Write) -> None:
+    text = f"{DEMO_HEADER}\n{GOOD_ROW.replace(',80,', ',' + 'z' * 20000 + ',')}\n"
+    outcome = _load_or_error(write("long.csv", text))
+    assert isinstance(outcome, LoadResult)
+    assert all(len(p.raw or "") <= 200 for p in outcome.problems)
+    assert all(len(p.message) <= 400 for p in outcome.problems)
