@@ -30,13 +30,18 @@ from catalog.schema import FIELDS, FIELDS_BY_NAME, TEMP_RANGE_FIELD, FieldSpec, 
 from catalog.units import UnitError, parse_quantity
 
 __all__ = [
+    "IGNORE",
     "ColumnBinding",
     "HeaderMap",
     "HeaderMapping",
+    "MappingEntry",
+    "closest_headers",
     "load_mapping",
     "map_headers",
+    "missing_required",
     "split_header_unit",
     "suggest_field",
+    "unit_fits",
 ]
 
 #: The word a mapping file uses to say "this column is deliberately not read".

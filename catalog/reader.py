@@ -41,6 +41,9 @@ __all__ = [
     "expand_catalog_paths",
     "load_catalogs",
     "load_catalogs_with_status",
+    "parse_catalog_file",
+    "read_raw_table",
+    "resolve_duplicates",
 ]
 
 CATALOG_SUFFIXES: Final[tuple[str, ...]] = (".csv", ".yaml", ".yml")
