@@ -12,7 +12,6 @@ from __future__ import annotations
 import contextlib
 import hashlib
 import os
-import tempfile
 import time
 from collections.abc import Callable
 from pathlib import Path
@@ -185,13 +184,19 @@ def test_wrong_dimension_negative_nan_inf_cells(write: Write, cell: str, words: 
     assert words in outcome.problems[0].message
 
 
-_SCRATCH = tempfile.mkdtemp(prefix="picker-hostile-")
+_RANDOM = settings(
+    max_examples=150,
+    deadline=None,
+    suppress_health_check=[HealthCheck.too_slow, HealthCheck.function_scoped_fixture],
+)
 
 
-@settings(max_examples=150, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@_RANDOM
 @given(data=st.binary(max_size=2000), suffix=st.sampled_from([".csv", ".yaml"]))
-def test_random_bytes_give_catalog_error_or_result(data: bytes, suffix: str) -> None:
-    path = Path(_SCRATCH) / f"random{suffix}"
+def test_random_bytes_give_catalog_error_or_result(
+    data: bytes, suffix: str, tmp_path: Path
+) -> None:
+    path = tmp_path / f"random{suffix}"
     path.write_bytes(data)
     _load_or_error(path)
     reader = read_csv_table if suffix == ".csv" else read_yaml_table
@@ -203,10 +208,10 @@ def test_random_bytes_give_catalog_error_or_result(data: bytes, suffix: str) -> 
 _CSV_ALPHABET = st.sampled_from([*list(',;\t"\n\r x1-.°Ωµ±pFMHzkohmppm'), "\x00", "\ufeff"])
 
 
-@settings(max_examples=150, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@_RANDOM
 @given(body=st.text(alphabet=_CSV_ALPHABET, max_size=400))
-def test_random_table_text_gives_catalog_error_or_result(body: str) -> None:
-    path = Path(_SCRATCH) / "table.csv"
+def test_random_table_text_gives_catalog_error_or_result(body: str, tmp_path: Path) -> None:
+    path = tmp_path / "table.csv"
     path.write_bytes((DEMO_HEADER + "\n" + body).encode("utf-8"))
     outcome = _load_or_error(path)
     if isinstance(outcome, LoadResult):
@@ -230,10 +235,10 @@ _YAML_PIECES = st.sampled_from(
 )
 
 
-@settings(max_examples=150, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@_RANDOM
 @given(pieces=st.lists(_YAML_PIECES, max_size=80))
-def test_random_yaml_text_gives_catalog_error_or_result(pieces: list[str]) -> None:
-    path = Path(_SCRATCH) / "table.yaml"
+def test_random_yaml_text_gives_catalog_error_or_result(pieces: list[str], tmp_path: Path) -> None:
+    path = tmp_path / "table.yaml"
     path.write_bytes("".join(pieces).encode("utf-8"))
     _load_or_error(path)
     os.remove(path)
