@@ -16,7 +16,7 @@ import pandas as pd
 from textual import on, work
 from textual.app import App, ComposeResult
 from textual.binding import Binding, BindingType
-from textual.containers import Vertical
+from textual.containers import Horizontal, Vertical
 from textual.events import Resize
 from textual.timer import Timer
 from textual.widgets import (
@@ -45,6 +45,8 @@ from picker.tui.shortlist import ShortlistView, status_cells
 
 MIN_WIDTH = 60
 MIN_HEIGHT = 16
+WIDE_WIDTH = 150
+"""From this terminal width on, the shortlist tab shows the part sheet beside the list."""
 RERANK_DELAY_S = 0.15
 """Debounce between the last brief keystroke and the re-rank [s]."""
 
@@ -121,8 +123,13 @@ class PickerApp(App[int]):
                 with TabPane("Brief (b)", id="tab-brief"):
                     yield BriefPane(self.core, id="brief")
                 with TabPane("Shortlist (s)", id="tab-shortlist"):
-                    yield ShortlistView(id="shortlist")
-                    yield Static("", id="shortlist-detail", markup=False)
+                    with Horizontal(id="shortlist-row"):
+                        with Vertical(id="shortlist-column"):
+                            yield ShortlistView(id="shortlist")
+                            yield Static("", id="shortlist-detail", markup=False)
+                        # On wide terminals the sheet of the highlighted part sits beside
+                        # the list, so both are read at once.
+                        yield PartSheetView(id="side-sheet")
                 with TabPane("Part sheet (p)", id="tab-sheet"):
                     yield PartSheetView(id="sheet")
                 with TabPane("Ruled out (r)", id="tab-ruled-out"):
@@ -156,6 +163,7 @@ class PickerApp(App[int]):
     def _check_size(self, width: int, height: int) -> None:
         small = width < MIN_WIDTH or height < MIN_HEIGHT
         self.screen.set_class(small, "-too-small")
+        self.screen.set_class(width >= WIDE_WIDTH, "-wide")
         if small:
             self.query_one("#too-small", Static).update(
                 f"Terminal too small ({width}×{height}).\n"
@@ -298,7 +306,8 @@ class PickerApp(App[int]):
         detail = self.query_one("#shortlist-detail", Static)
         if mpn is None or self.shortlist is None:
             detail.update("")
-            self.query_one(PartSheetView).show_message("No part is listed for this brief.")
+            for sheet_view in self.query(PartSheetView):
+                sheet_view.show_message("No part is listed for this brief.")
             return
         row = self.shortlist.rows.iloc[view.cursor]
         status, _ = status_cells(str(row["status"]))
@@ -320,7 +329,9 @@ class PickerApp(App[int]):
             self.call_from_thread(self._show_sheet, sheet)
 
     def _show_sheet(self, sheet: PartSheet) -> None:
-        self.query_one(PartSheetView).show(sheet)
+        self.query_one("#sheet", PartSheetView).show(sheet)
+        if sheet.mpn == self.query_one(ShortlistView).current_mpn():
+            self.query_one("#side-sheet", PartSheetView).show(sheet)
         if sheet.mpn == self.query_one(ShortlistView).current_mpn() and sheet.reasons:
             # Say why a marginal part is marginal right under the list.
             self.query_one("#shortlist-detail", Static).update(
@@ -367,7 +378,7 @@ class PickerApp(App[int]):
         """Open the part sheet: for `mpn`, else for the highlighted shortlist part."""
         self._sheet_request = mpn
         wanted = mpn or self.query_one(ShortlistView).current_mpn()
-        shown = self.query_one(PartSheetView).sheet
+        shown = self.query_one("#sheet", PartSheetView).sheet
         if wanted is not None and (shown is None or shown.mpn != wanted):
             self.load_sheet(wanted)
         self.action_tab("tab-sheet")
@@ -655,7 +666,7 @@ class PickerApp(App[int]):
     def _tab_activated(self, event: TabbedContent.TabActivated) -> None:
         if event.pane.id == "tab-sheet":
             mpn = self._sheet_request or self.query_one(ShortlistView).current_mpn()
-            sheet = self.query_one(PartSheetView).sheet
+            sheet = self.query_one("#sheet", PartSheetView).sheet
             if mpn is not None and (sheet is None or sheet.mpn != mpn):
                 self.load_sheet(mpn)
 
