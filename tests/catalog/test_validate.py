@@ -218,3 +218,24 @@ def test_pinout_turned_into_a_date_gets_a_hint(write: Write) -> None:
     )
     assert list(result.parts["pinout"]) == ["", "1-3"]
     assert "into a date" in result.problems[0].message
+
+
+def test_each_distinct_text_is_parsed_once(write: Write, monkeypatch: pytest.MonkeyPatch) -> None:
+    import catalog.validate as validate_module
+
+    calls: list[tuple[str, str]] = []
+    real = validate_module.parse_quantity
+
+    def counting(text: str, dimension: str, **kwargs: object) -> float:
+        calls.append((text, dimension))
+        return real(text, dimension, **kwargs)  # type: ignore[arg-type]
+
+    monkeypatch.setattr(validate_module, "parse_quantity", counting)
+    rows = [
+        GOOD_ROW.replace("ZX-16A", f"ZX-{i}").replace(",80,", f",{60 + 20 * (i % 2)},")
+        for i in range(500)
+    ]
+    result = _load(write, *rows)
+    assert len(result.parts) == 500
+    esr_calls = [text for text, dimension in calls if dimension == "resistance"]
+    assert sorted(esr_calls) == ["60", "80"]  # 500 cells, two distinct texts
