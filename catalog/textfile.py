@@ -60,9 +60,6 @@ def read_catalog_bytes(path: Path, limits: Limits) -> bytes:
         raise CatalogError(f"{shown}: cannot read ({error.strerror or error})") from None
     if stat.S_ISDIR(status.st_mode):
         raise CatalogError(f"{shown}: is a directory")
-    if not stat.S_ISREG(status.st_mode):
-        # A pipe or device would block or never end: only regular files are catalogs.
-        raise CatalogError(f"{shown}: not a regular file")
     if size > limits.max_file_bytes:
         raise CatalogError(
             f"{shown}: {size / 1e6:.1f} MB is larger than the {limits.max_file_bytes / 1e6:.0f} MB "

@@ -244,12 +244,12 @@ def test_random_yaml_text_gives_catalog_error_or_result(pieces: list[str], tmp_p
     os.remove(path)
 
 
-def test_fifo_is_refused_not_waited_on(tmp_path: Path) -> None:
+def test_fifo_without_writer_is_refused_not_waited_on(tmp_path: Path) -> None:
     fifo = tmp_path / "pipe.csv"
     os.mkfifo(fifo)
     start = time.perf_counter()
     outcome = _load_or_error(fifo)
-    assert isinstance(outcome, CatalogError) and "not a regular file" in str(outcome)
+    assert isinstance(outcome, CatalogError) and "pipe" in str(outcome)
     assert time.perf_counter() - start < 5.0
 
 
