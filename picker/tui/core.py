@@ -162,18 +162,18 @@ class PickerCore:
     def read_brief(self, path: Path) -> dict[str, object]:
         """Every field of the brief (defaults included, so each can be edited); a brief that
         does not parse comes back as written, so the user can fix it on screen."""
-        import yaml
-
-        from picker.brief import BriefError, brief_to_mapping, load_brief
+        from picker.brief import BriefError, brief_to_mapping, load_brief, load_brief_mapping
 
         try:
             return brief_to_mapping(load_brief(path), include_defaults=True)
-        except BriefError:
+        except BriefError as error:
+            # Read as written with the file checks of load_brief (size, nesting, aliases):
+            # a plain yaml.safe_load here expanded alias bombs and overflowed the stack.
             try:
-                data = yaml.safe_load(path.read_text(encoding="utf-8"))
-            except (OSError, UnicodeDecodeError, yaml.YAMLError):
-                raise
-            if not isinstance(data, dict):
+                data = load_brief_mapping(path)
+            except BriefError:
+                raise error from None
+            if not data:
                 raise
             return {str(k): v for k, v in data.items()}
 
