@@ -145,7 +145,7 @@ def rank_analysis(analysis: pd.DataFrame, brief: Brief) -> Ranking:
     }
     for name in SCORE_COMPONENTS:
         columns[f"score_{name}"] = components[name]
-    extra = pd.DataFrame(columns, index=analysis.index)
+    extra = pd.DataFrame(columns, index=analysis.index, copy=False)
     # One frame without consolidating blocks (a copy of every column at a million rows).
     merged = {name: analysis[name] for name in analysis.columns}
     merged.update({name: extra[name] for name in extra.columns})
