@@ -66,19 +66,18 @@ def frequency_error_budget(
             for t in (tolerance_ppm, temperature_ppm, aging_ppm, pulling_ppm, spread_ppm)
         )
     )
-    stacked = np.stack([tolerance, temperature, aging, pulling, spread])
-    # RSS scaled by the largest term so tiny terms neither underflow nor overflow
-    largest = stacked.max(axis=0)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        scaled = np.where(largest > 0.0, stacked / np.where(largest > 0.0, largest, 1.0), 0.0)
-    rss = largest * np.sqrt((scaled**2).sum(axis=0))
+    # hypot neither under- nor overflows, so the RSS needs no scaling; no 5-row stack either
+    rss = np.hypot(np.hypot(np.hypot(np.hypot(tolerance, temperature), aging), pulling), spread)
+    total = tolerance + temperature + aging + pulling + spread
+    # hypot(inf, NaN) is inf; a missing term must leave the RSS unknown, as it does the sum
+    rss = np.where(np.isnan(total), np.nan, rss)
     return ErrorBudget(
         tolerance_ppm=to_float(tolerance),
         temperature_ppm=to_float(temperature),
         aging_ppm=to_float(aging),
         pulling_ppm=to_float(pulling),
         spread_ppm=to_float(spread),
-        total_ppm=to_float(stacked.sum(axis=0)),
+        total_ppm=to_float(total),
         rss_ppm=to_float(rss),
     )
 

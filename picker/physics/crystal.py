@@ -8,6 +8,7 @@ C0, as defined in IEC 60122-1 and IEC 60444-1.
 from __future__ import annotations
 
 import numpy as np
+import numpy.typing as npt
 
 from picker.physics._arrays import (
     ArrayLike,
@@ -19,6 +20,13 @@ from picker.physics._arrays import (
 )
 
 _TWO_PI = 2.0 * np.pi
+
+#: Fixed-point steps of :func:`load_resonance_frequency`: at most this many (the contraction
+#: by about C1/(C0+CL) ~ 1e-3 per step reaches double precision in three or four) ...
+_LOAD_RESONANCE_MAX_STEPS = 6
+#: ... a row stops at the first step that leaves it unchanged; once fewer than one row in
+#: this many still moves, only the moving rows are stepped.
+_LOAD_RESONANCE_COMPACT_BELOW = 4
 
 
 def series_resonance(l1: ArrayLike, c1: ArrayLike) -> FloatArray:
@@ -205,7 +213,8 @@ def load_resonance_frequency(
 
     whose smaller root is X* = 2c/(b + √(b² − 4ac)) (the numerically stable form). X* is a
     slowly varying function of ω, so ω follows from L1·ω² − X*·ω − 1/C1 = 0 by a fixed-point
-    iteration that contracts by about C1/(C0+CL) per step; six steps reach double precision.
+    iteration that contracts by about C1/(C0+CL) per step; six steps reach double precision,
+    and a row stops earlier once a step leaves it unchanged (most rows after three or four).
     Lossless, X* = 1/(ω(C0+CL)) and fL = fs·√(1 + C1/(C0+CL)) (IEC 60122-1).
 
     Examples
@@ -221,19 +230,67 @@ def load_resonance_frequency(
     )
     omega_s = _TWO_PI * fs_a
     l1 = 1.0 / (omega_s**2 * c1_a)
-    # start from the lossless exact value
-    with np.errstate(divide="ignore", invalid="ignore"):
-        omega = omega_s * np.sqrt(1.0 + c1_a / (c0_a + cl_a))
-        for _ in range(6):
-            b0 = omega * c0_a
-            s = 1.0 / (omega * cl_a)
-            a = b0 * (1.0 + b0 * s)
-            b = 1.0 + 2.0 * b0 * s
-            c = s + a * r1_a**2
-            disc = b * b - 4.0 * a * c
-            x_star = 2.0 * c / (b + np.sqrt(disc))
-            omega = (x_star + np.sqrt(x_star**2 + 4.0 * l1 / c1_a)) / (2.0 * l1)
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        # loop invariants, formed as the step would form them (same rounding)
+        invariants = (c0_a, cl_a, r1_a * r1_a, 4.0 * l1 / c1_a, 2.0 * l1)
+        # start from the lossless exact value
+        omega = np.asarray(omega_s * np.sqrt(1.0 + c1_a / (c0_a + cl_a)))
+        omega = _iterate_load_resonance(omega, invariants)
     return to_float(omega / _TWO_PI)
+
+
+_Invariants = tuple[FloatArray, FloatArray, FloatArray, FloatArray, FloatArray]
+
+
+def _load_resonance_step(omega: FloatArray, invariants: _Invariants) -> FloatArray:
+    # one fixed-point step of load_resonance_frequency (see its Notes)
+    c0, cl, r1_squared, four_l1_per_c1, two_l1 = invariants
+    b0 = omega * c0
+    s = 1.0 / (omega * cl)
+    b0_s = b0 * s
+    a = b0 * (1.0 + b0_s)
+    b = 1.0 + 2.0 * b0_s
+    c = s + a * r1_squared
+    disc = b * b - 4.0 * a * c
+    x_star = 2.0 * c / (b + np.sqrt(disc))
+    return np.asarray((x_star + np.sqrt(x_star * x_star + four_l1_per_c1)) / two_l1)
+
+
+def _iterate_load_resonance(omega: FloatArray, invariants: _Invariants) -> FloatArray:
+    # A row whose step returns the very same bits has reached a fixed point of the step, so
+    # every later step returns it again: it is final. Rows keep stepping (up to the maximum)
+    # only while they move; once few move, only those rows are computed. Every row's result
+    # is therefore exactly that of the full-table fixed step count, and independent of the
+    # other rows, while most of the table stops after three or four steps.
+    active: tuple[npt.NDArray[np.intp], ...] | None = None
+    sub_omega, sub_invariants = omega, invariants
+    for _ in range(_LOAD_RESONANCE_MAX_STEPS):
+        new = _load_resonance_step(sub_omega, sub_invariants)
+        moved = new.view(np.int64) != sub_omega.view(np.int64)
+        if active is None:
+            omega = new
+        else:
+            omega[active] = new
+        count = int(np.count_nonzero(moved))
+        if count == 0:
+            break
+        if active is None and count * _LOAD_RESONANCE_COMPACT_BELOW >= moved.size:
+            sub_omega = new
+            continue
+        keep = np.nonzero(moved)
+        if active is None:
+            active = keep
+            sub_invariants = _take(invariants, keep)
+        else:
+            active = tuple(index[keep] for index in active)
+            sub_invariants = _take(sub_invariants, keep)
+        sub_omega = new[keep]
+    return omega
+
+
+def _take(invariants: _Invariants, index: tuple[npt.NDArray[np.intp], ...]) -> _Invariants:
+    c0, cl, r1_squared, four_l1_per_c1, two_l1 = invariants
+    return (c0[index], cl[index], r1_squared[index], four_l1_per_c1[index], two_l1[index])
 
 
 def series_resonance_from_load(

@@ -130,8 +130,17 @@ def negative_resistance(
     return to_float(np.asarray(np.real(pierce_impedance(omega, gm, cg, cd, c3, g1, g2, g3))))
 
 
-class _RealPartCoefficients(NamedTuple):
-    """Re(Zc) = (a2·gm² + a1·gm + a0) / (q2·gm² + q1·gm + q0), exact for real gm."""
+class PierceCoefficients(NamedTuple):
+    """Re(Zc) = (a2·gm² + a1·gm + a0) / (q2·gm² + q1·gm + q0), exact for real gm.
+
+    Attributes
+    ----------
+    a2 [S], a1 [S²], a0 [S³] : numerator coefficients
+    q2 [S²], q1 [S³], q0 [S⁴] : denominator coefficients (the denominator is |D|² ≥ 0)
+
+    None of them depends on gm, so one set serves every gm and every R1 of the same
+    network: build it once with :func:`pierce_coefficients`.
+    """
 
     a2: FloatArray
     a1: FloatArray
@@ -141,31 +150,68 @@ class _RealPartCoefficients(NamedTuple):
     q0: FloatArray
 
 
-def _real_part_coefficients(
+def pierce_coefficients(
     omega: ArrayLike,
     cg: ArrayLike,
     cd: ArrayLike,
     c3: ArrayLike,
-    g1: ArrayLike,
-    g2: ArrayLike,
-    g3: ArrayLike,
-) -> _RealPartCoefficients:
-    # Zc = N/D with N = gm + n0 and D = Y3·gm + d0, both linear in gm, so
-    # Re(Zc) = Re(N·conj(D)) / |D|² is a ratio of two quadratics in (real) gm.
+    g1: ArrayLike = 0.0,
+    g2: ArrayLike = 0.0,
+    g3: ArrayLike = 0.0,
+) -> PierceCoefficients:
+    """Coefficients of Re(Zc) as a ratio of two quadratics in the transconductance.
+
+    Parameters
+    ----------
+    omega, cg, cd, c3, g1, g2, g3 : as in :func:`pierce_impedance`
+        [rad/s, F, F, F, S, S, S]
+
+    Returns
+    -------
+    PierceCoefficients
+        a2, a1, a0, q2, q1, q0, broadcast to the common shape of the inputs
+
+    Notes
+    -----
+    Zc = N/D with N = gm + n0 and D = Y3·gm + d0, n0 = Y1 + Y2, d0 = Y1·Y2 + Y3·n0
+    (the network of :func:`pierce_impedance`; Vittoz et al., IEEE JSSC 1988), so
+    Re(Zc) = Re(N·conj D) / |D|² with a2 = Re Y3, a1 = Re(conj d0 + n0·conj Y3),
+    a0 = Re(n0·conj d0), q2 = |Y3|², q1 = 2·Re(Y3·conj d0), q0 = |d0|².
+    Evaluated in real arithmetic (Yi = Gi + jωCi expanded by hand), which is cheaper than
+    complex arrays and agrees with them to rounding.
+    """
     w = as_float(omega)
-    y1 = as_float(g1) + 1j * w * as_float(cg)
-    y2 = as_float(g2) + 1j * w * as_float(cd)
-    y3 = as_float(g3) + 1j * w * as_float(c3)
-    n0 = y1 + y2
-    d0 = y1 * y2 + y3 * n0
-    a2 = np.real(np.conj(y3))
-    a1 = np.real(np.conj(d0) + n0 * np.conj(y3))
-    a0 = np.real(n0 * np.conj(d0))
-    q2 = np.abs(y3) ** 2
-    q1 = 2.0 * np.real(y3 * np.conj(d0))
-    q0 = np.abs(d0) ** 2
-    a2, a1, a0, q2, q1, q0 = np.broadcast_arrays(a2, a1, a0, q2, q1, q0)
-    return _RealPartCoefficients(a2, a1, a0, q2, q1, q0)
+    g1_a, g2_a, g3_a = as_float(g1), as_float(g2), as_float(g3)
+    with np.errstate(invalid="ignore", over="ignore"):  # NaN inputs give NaN, silently
+        wcg = w * as_float(cg)  # Im Y1
+        wcd = w * as_float(cd)  # Im Y2
+        wc3 = w * as_float(c3)  # Im Y3
+        n0r = g1_a + g2_a
+        n0i = wcg + wcd
+        # d0 = Y1·Y2 + Y3·n0, each complex product written out (same operation order)
+        d0r = (g1_a * g2_a - wcg * wcd) + (g3_a * n0r - wc3 * n0i)
+        d0i = (g1_a * wcd + wcg * g2_a) + (g3_a * n0i + wc3 * n0r)
+        a1 = d0r + (n0r * g3_a + n0i * wc3)
+        a0 = n0r * d0r + n0i * d0i
+        q2 = g3_a * g3_a + wc3 * wc3
+        q1 = 2.0 * (g3_a * d0r + wc3 * d0i)
+        q0 = d0r * d0r + d0i * d0i
+    # views, not copies: a2 = G3 is often one number for the whole table
+    a2, a1, a0, q2, q1, q0 = np.broadcast_arrays(g3_a, a1, a0, q2, q1, q0)
+    return PierceCoefficients(a2, a1, a0, q2, q1, q0)
+
+
+class PierceOptimum(NamedTuple):
+    """The network's best operating point: where |Re(Zc)| peaks.
+
+    Attributes
+    ----------
+    gm_opt : optimum transconductance [S] (see :func:`optimum_transconductance`)
+    rneg_max : |Rneg|max [ohm] (see :func:`max_negative_resistance`)
+    """
+
+    gm_opt: FloatArray
+    rneg_max: FloatArray
 
 
 def critical_transconductance(
@@ -207,19 +253,39 @@ def critical_transconductance(
     >>> print(f"{float(gm) * 1e3:.3f} mA/V")
     0.836 mA/V
     """
-    k = _real_part_coefficients(omega, cg, cd, c3, g1, g2, g3)
+    return critical_transconductance_from(pierce_coefficients(omega, cg, cd, c3, g1, g2, g3), r1)
+
+
+def critical_transconductance_from(coefficients: PierceCoefficients, r1: ArrayLike) -> FloatArray:
+    """:func:`critical_transconductance` from precomputed :func:`pierce_coefficients`.
+
+    Parameters
+    ----------
+    coefficients : Re(Zc) coefficients of the network [SI]
+    r1 : motional resistance [ohm]
+
+    Returns
+    -------
+    gm_crit : critical transconductance [S]; ``inf``, 0 and NaN as in
+        :func:`critical_transconductance`
+
+    Notes
+    -----
+    The quadratic (a2 + R1·q2)·gm² + (a1 + R1·q1)·gm + (a0 + R1·q0) = 0, rising-branch root
+    2c/(−b + √(b² − 4ac)) (Vittoz et al., IEEE JSSC 1988). Reusing one coefficient set for
+    gm_crit, gm_opt, |Rneg|max and Re(Zc) saves rebuilding it for each.
+    """
+    k = coefficients
     r1_a = as_float(r1)
-    a = k.a2 + r1_a * k.q2
-    b = k.a1 + r1_a * k.q1
-    c = k.a0 + r1_a * k.q0
-    a, b, c = np.broadcast_arrays(a, b, c)
-    with np.errstate(invalid="ignore", divide="ignore"):
+    a, b, c = np.broadcast_arrays(k.a2 + r1_a * k.q2, k.a1 + r1_a * k.q1, k.a0 + r1_a * k.q0)
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
         disc = b * b - 4.0 * a * c
         root = 2.0 * c / (-b + np.sqrt(disc))
     result = np.where((disc >= 0.0) & (b < 0.0) & (c > 0.0), root, np.inf)
-    result = np.where(c <= 0.0, 0.0, result)
-    result = np.where(np.isnan(a) | np.isnan(b) | np.isnan(c), np.nan, result)
-    return to_float(np.asarray(result, dtype=np.float64))
+    # in place: the masks are rare, and a fresh 1M-row array per rule costs more than the test
+    np.copyto(result, 0.0, where=c <= 0.0)
+    np.copyto(result, np.nan, where=np.isnan(a) | np.isnan(b) | np.isnan(c))
+    return to_float(result)
 
 
 def optimum_transconductance(
@@ -250,7 +316,7 @@ def optimum_transconductance(
     (a2·q1 − a1·q2)·gm² + 2·(a2·q0 − a0·q2)·gm + (a1·q0 − a0·q1) = 0; the root with the
     most negative Re(Zc) is returned.
     """
-    return _optimum(omega, cg, cd, c3, g1, g2, g3)[0]
+    return pierce_optimum(pierce_coefficients(omega, cg, cd, c3, g1, g2, g3)).gm_opt
 
 
 def max_negative_resistance(
@@ -285,49 +351,92 @@ def max_negative_resistance(
     >>> round(float(max_negative_resistance(2 * np.pi * 16e6, 18e-12, 18e-12, 7e-12)), 1)
     399.7
     """
-    return _optimum(omega, cg, cd, c3, g1, g2, g3)[1]
+    return pierce_optimum(pierce_coefficients(omega, cg, cd, c3, g1, g2, g3)).rneg_max
 
 
-def _optimum(
-    omega: ArrayLike,
-    cg: ArrayLike,
-    cd: ArrayLike,
-    c3: ArrayLike,
-    g1: ArrayLike,
-    g2: ArrayLike,
-    g3: ArrayLike,
-) -> tuple[FloatArray, FloatArray]:
-    k = _real_part_coefficients(omega, cg, cd, c3, g1, g2, g3)
+def pierce_optimum(coefficients: PierceCoefficients) -> PierceOptimum:
+    """gm_opt and |Rneg|max together, from precomputed :func:`pierce_coefficients`.
+
+    Parameters
+    ----------
+    coefficients : Re(Zc) coefficients of the network [SI]
+
+    Returns
+    -------
+    PierceOptimum
+        gm_opt [S] as :func:`optimum_transconductance`, rneg_max [ohm] as
+        :func:`max_negative_resistance` (both come from the same stationary point, so one
+        call gives both)
+
+    Notes
+    -----
+    d Re(Zc)/d gm = 0 for Re(Zc) = P/Q is
+    (a2·q1 − a1·q2)·gm² + 2·(a2·q0 − a0·q2)·gm + (a1·q0 − a0·q1) = 0; the positive root
+    with the most negative Re(Zc) is the optimum (Vittoz et al., IEEE JSSC 1988).
+    """
+    k = coefficients
     a = k.a2 * k.q1 - k.a1 * k.q2
     b = 2.0 * (k.a2 * k.q0 - k.a0 * k.q2)
     c = k.a1 * k.q0 - k.a0 * k.q1
-    with np.errstate(invalid="ignore", divide="ignore"):
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
         sq = np.sqrt(b * b - 4.0 * a * c)
-        # both roots in stable forms; a may vanish (lossless, q1 = a2 = 0 gives b = 0 too)
-        root_1 = np.where(b >= 0.0, (-b - sq) / (2.0 * a), 2.0 * c / (-b + sq))
-        root_2 = np.where(b >= 0.0, 2.0 * c / (-b - sq), (-b + sq) / (2.0 * a))
-
-        def real_part(gm: FloatArray) -> FloatArray:
-            value = (k.a2 * gm**2 + k.a1 * gm + k.a0) / (k.q2 * gm**2 + k.q1 * gm + k.q0)
-            usable = np.isfinite(gm) & (gm > 0.0) & np.isfinite(value)
-            return np.where(usable, value, np.inf)
-
-        re_1 = real_part(root_1)
-        re_2 = real_part(root_2)
-    pick_1 = re_1 <= re_2
-    gm_opt = np.where(pick_1, root_1, root_2)
-    re_min = np.where(pick_1, re_1, re_2)
-    negative = np.isfinite(re_min) & (re_min < 0.0)
-    gm_opt = np.where(negative, gm_opt, np.nan)
+        b_positive = b >= 0.0
+        # both roots in stable forms from h = −(b + sign(b)·√disc)/2: h/a and c/h (a may
+        # vanish: lossless, q1 = a2 = 0 gives b = 0 too)
+        half = -0.5 * (b + np.where(b_positive, sq, -sq))
+        root_h = half / a
+        root_c = c / half
+        re_h = _usable_real_part(k, root_h)
+        re_c = _usable_real_part(k, root_c)
+    # the smaller Re(Zc) wins; on a tie the root (−b ∓ √disc)/(2a) form ranks first
+    pick_h = np.where(b_positive, re_h <= re_c, re_h < re_c)
+    gm_opt = np.where(pick_h, root_h, root_c)
+    re_min = np.where(pick_h, re_h, re_c)
+    negative = re_min < 0.0  # re_min is finite or +inf, never NaN
     rneg_max = np.where(negative, -re_min, 0.0)
+    np.copyto(gm_opt, np.nan, where=~negative)
     # nothing across the crystal (Y3 = 0): Re(Zc) = a1·gm/q0 falls without bound
     unbounded = (k.q2 == 0.0) & (k.q1 == 0.0) & (k.a2 == 0.0) & (k.a1 < 0.0)
-    gm_opt = np.where(unbounded, np.inf, gm_opt)
-    rneg_max = np.where(unbounded, np.inf, rneg_max)
+    np.copyto(gm_opt, np.inf, where=unbounded)
+    np.copyto(rneg_max, np.inf, where=unbounded)
     missing = np.isnan(k.a1) | np.isnan(k.q0) | np.isnan(k.a2) | np.isnan(k.q2)
-    gm_opt = np.where(missing, np.nan, gm_opt)
-    rneg_max = np.where(missing, np.nan, rneg_max)
-    return to_float(np.asarray(gm_opt)), to_float(np.asarray(rneg_max))
+    np.copyto(gm_opt, np.nan, where=missing)
+    np.copyto(rneg_max, np.nan, where=missing)
+    return PierceOptimum(to_float(gm_opt), to_float(rneg_max))
+
+
+def _usable_real_part(k: PierceCoefficients, gm: FloatArray) -> FloatArray:
+    # Re(Zc) at a candidate root; +inf where the root is no real positive transconductance
+    gm2 = gm * gm
+    value = (k.a2 * gm2 + k.a1 * gm + k.a0) / (k.q2 * gm2 + k.q1 * gm + k.q0)
+    usable = (gm > 0.0) & np.isfinite(gm) & np.isfinite(value)
+    return np.where(usable, value, np.inf)
+
+
+def negative_resistance_from(coefficients: PierceCoefficients, gm: ArrayLike) -> FloatArray:
+    """Re(Zc) at a transconductance, from precomputed :func:`pierce_coefficients`.
+
+    Parameters
+    ----------
+    coefficients : Re(Zc) coefficients of the network [SI]
+    gm : amplifier transconductance [S]
+
+    Returns
+    -------
+    rneg : Re(Zc) [ohm]; agrees with :func:`negative_resistance` to rounding (the two
+        differ where Re(Zc) is tiny against |Zc|, i.e. far from any useful operating point)
+
+    Notes
+    -----
+    (a2·gm² + a1·gm + a0) / (q2·gm² + q1·gm + q0) (Vittoz et al., IEEE JSSC 1988). Cheaper
+    than the complex form when several gm values share one network (drive settings).
+    """
+    k = coefficients
+    gm_a = as_float(gm)
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        gm2 = gm_a * gm_a
+        value = (k.a2 * gm2 + k.a1 * gm_a + k.a0) / (k.q2 * gm2 + k.q1 * gm_a + k.q0)
+    return to_float(value)
 
 
 def can_start(r1: ArrayLike, rneg_max: ArrayLike) -> BoolArray:
