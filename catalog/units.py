@@ -430,11 +430,13 @@ def _parse_uncached(text: str, dimension: str, default_unit: str | None) -> floa
 
 
 def _finite(value: float, dimension: str, raw: str) -> float:
-    if not math.isfinite(value):
-        raise UnitError(_expected(dimension, raw))
     # Unit scaling leaves binary noise (100 uW -> 9.999999999999999e-05); 15 significant
     # digits is below any catalog's precision and gives the value the user wrote.
-    return float(f"{value:.15g}")
+    # Checked after rounding: values next to the float maximum round up to infinity.
+    rounded = float(f"{value:.15g}") if math.isfinite(value) else value
+    if not math.isfinite(rounded):
+        raise UnitError(_expected(dimension, raw))
+    return rounded
 
 
 def _convert(number: float, unit: str, dimension: str, raw: str) -> float:
