@@ -26,6 +26,7 @@ just the first ``n``).
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 from functools import cached_property
 from typing import Literal
@@ -406,7 +407,7 @@ def describe_differences(
 def _series_offset_ppm(alt: pd.Series, cl_ref: float, analysis: pd.Series | None) -> float:
     """How far a series-calibrated part runs from its nominal in the reference's circuit:
     the brief's pulling figure, or the load-resonance offset at the reference's CL."""
-    if analysis is not None:
+    if analysis is not None and np.isfinite(_f(analysis["pulling_ppm"])):
         return _f(analysis["pulling_ppm"])
     c0, c1 = _f(alt.get("c0_f")), _f(alt.get("c1_f"))
     if not (np.isfinite(c0) and np.isfinite(c1)):
@@ -495,8 +496,9 @@ def _spec_notes(
     esr_r, esr_a = _f(ref.get("esr_ohm")), _f(alt.get("esr_ohm"))
     if abs(esr_a - esr_r) > 1e-9:
         text = f"ESR {_ohm(esr_a)} vs {_ohm(esr_r)}: {'worse' if esr_a > esr_r else 'better'}"
-        if alt_analysis is not None and ref_analysis is not None:
-            m_a, m_r = _f(alt_analysis["form_margin"]), _f(ref_analysis["form_margin"])
+        m_a = _f(alt_analysis["form_margin"]) if alt_analysis is not None else math.nan
+        if ref_analysis is not None and alt_analysis is not None and np.isfinite(m_a):
+            m_r = _f(ref_analysis["form_margin"])
             label = "margin" if str(alt_analysis["amplifier_form"]) != "gm_crit_max" else "gain"
             text = f"ESR {_ohm(esr_a)} vs {_ohm(esr_r)}: {label} {_g(m_a, 2)} instead of " + (
                 f"{_g(m_r, 2)} in this circuit"

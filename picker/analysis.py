@@ -118,18 +118,77 @@ def _labelled(codes: np.ndarray, labels: np.ndarray) -> pd.Categorical:
     return pd.Categorical.from_codes(np.asarray(small.codes)[codes], categories=small.categories)
 
 
-def analyze_parts(parts: pd.DataFrame, brief: Brief) -> pd.DataFrame:
+#: Nominal frequencies within this fraction of the brief's are the brief's frequency.
+SAME_FREQUENCY = 1e-9
+
+
+def frequency_matches(freq_hz: np.ndarray, brief: Brief) -> np.ndarray:
+    """True where a part's nominal frequency is the brief's (exact, to 1e-9 relative)."""
+    return np.asarray(
+        np.abs(freq_hz - brief.frequency_hz) <= SAME_FREQUENCY * brief.frequency_hz, dtype=bool
+    )
+
+
+def analyze_parts(
+    parts: pd.DataFrame, brief: Brief, *, every_frequency: bool = False
+) -> pd.DataFrame:
     """All circuit figures for every row of the part table ``parts`` (same index).
 
     Parameters
     ----------
     parts : the part table (INTERFACES.md column schema, SI float columns).
     brief : the circuit and its limits.
+    every_frequency : compute the circuit figures for parts at other nominal frequencies
+        too. By default they are NaN there: such a part cannot serve this brief whatever its
+        figures, and a catalog usually holds many frequencies, so skipping them makes a
+        re-analysis several times faster. Catalog figures are always carried.
 
     Returns
     -------
     DataFrame with one row per part; figures in SI units except where the name says ppm.
     """
+    f_nom = _col(parts, "freq_hz")
+    match = frequency_matches(f_nom, brief)
+    if every_frequency or match.all():
+        return _analyze_rows(parts, brief)
+    rows = np.flatnonzero(match)
+    computed = _analyze_rows(parts.iloc[rows], brief)
+    return _spread_rows(computed, parts, rows, brief, f_nom)
+
+
+def _spread_rows(
+    computed: pd.DataFrame, parts: pd.DataFrame, rows: np.ndarray, brief: Brief, f_nom: np.ndarray
+) -> pd.DataFrame:
+    """The analysis of ``rows`` placed into a frame over all of ``parts`` (others: NaN,
+    False, or missing; catalog columns and the budget carried for every row)."""
+    n = len(parts)
+    columns: dict[str, Any] = {name: parts[name] for name in PASS_THROUGH if name in parts}
+    defaults_true = {"caps_realisable"}
+    for name in computed.columns:
+        if name in columns:
+            continue
+        column = computed[name]
+        if isinstance(column.dtype, pd.CategoricalDtype):
+            codes = np.full(n, -1, dtype=np.int64)
+            codes[rows] = column.cat.codes.to_numpy()
+            columns[name] = pd.Categorical.from_codes(codes, categories=column.cat.categories)
+        elif column.dtype == bool:
+            flags = np.full(n, name in defaults_true, dtype=bool)
+            flags[rows] = column.to_numpy(dtype=bool)
+            columns[name] = flags
+        else:
+            values = np.full(n, np.nan)
+            values[rows] = column.to_numpy(dtype=float, na_value=np.nan)
+            columns[name] = values
+    columns["frequency_hz"] = f_nom
+    columns["budget_ppm"] = np.full(n, float(brief.budget_ppm))
+    columns["amplifier_form"] = _constant(n, brief.amplifier.form)
+    ordered = {name: columns[name] for name in computed.columns}
+    return pd.DataFrame(ordered, index=parts.index, copy=False)
+
+
+def _analyze_rows(parts: pd.DataFrame, brief: Brief) -> pd.DataFrame:
+    """analyze_parts for every row given (see there)."""
     n = len(parts)
     amp, board = brief.amplifier, brief.board
     f_nom = _col(parts, "freq_hz")

@@ -10,7 +10,8 @@ Status
 Score
     A weighted mean of readable components, each 0..1 (see :data:`SCORE_COMPONENTS`), with the
     brief's weights. Order: status, then score (high first), then part number, so equal parts
-    always come out in the same order.
+    always come out in the same order (ruled-out parts: fewest failed rules first, then
+    score, then catalog order).
 """
 
 from __future__ import annotations
@@ -24,7 +25,7 @@ from typing import Any
 import numpy as np
 import pandas as pd
 
-from picker.analysis import analyze_parts
+from picker.analysis import analyze_parts, frequency_matches
 from picker.brief import Brief
 
 STATUSES = ("fit", "marginal", "ruled_out")
@@ -152,7 +153,7 @@ def rank_analysis(analysis: pd.DataFrame, brief: Brief) -> Ranking:
     table = pd.DataFrame(merged, index=analysis.index, copy=False)
     # Ruled-out parts: those failing fewer rules first (closest to usable), then by score.
     failures = _popcount(fail)
-    order = order_rows(status_code, score - failures, analysis["mpn"])
+    order = order_rows(status_code, score - failures, analysis["mpn"], names_below_status=2)
     counts = {name: int(np.count_nonzero(status_code == i)) for i, name in enumerate(STATUSES)}
     return Ranking(analysis=table, order=order, brief=brief, counts=counts)
 
@@ -165,18 +166,29 @@ def _popcount(mask: np.ndarray) -> np.ndarray:
     return count
 
 
-def order_rows(status: np.ndarray, score: np.ndarray, mpns: pd.Series) -> np.ndarray:
+def order_rows(
+    status: np.ndarray,
+    score: np.ndarray,
+    mpns: pd.Series,
+    *,
+    names_below_status: int | None = None,
+) -> np.ndarray:
     """Positions sorted by status (small first), score (high first), then part number.
 
-    ``score`` must lie within ±20. Also used by the alternates (class, closeness).
+    ``score`` must lie within ±20. With ``names_below_status``, ties among rows of that
+    status or above keep the catalog's order instead of the part-number order (also
+    deterministic): sorting hundreds of thousands of equal ruled-out parts by name costs
+    seconds and tells nobody anything. Also used by the alternates (class, closeness).
     """
     # One float key (status dominates: scores lie within ±20) sorts faster than a lexsort.
     key = status * 1000.0 + np.where(np.isfinite(score), -score, 500.0)
-    order = np.argsort(key)
+    order = np.argsort(key, kind="stable")
     if order.size < 2:
         return order
     k = key[order]
     same = k[1:] == k[:-1]
+    if names_below_status is not None:
+        same &= status[order][1:] < names_below_status
     if not same.any():
         return order
     # Break ties by part number, touching only tied rows: a run id per group of equal keys,
@@ -230,7 +242,8 @@ def failure_mask(table: pd.DataFrame, brief: Brief) -> np.ndarray:
         np.bitwise_or(mask, np.where(condition, RULE_BIT[rule], 0), out=mask)
 
     freq = _arr(table, "frequency_hz")
-    fail("frequency", ~(np.abs(freq - brief.frequency_hz) <= 1e-9 * brief.frequency_hz))
+    wrong_frequency = ~frequency_matches(freq, brief)
+    fail("frequency", wrong_frequency)
     fail("never_starts", table["can_never_start"].to_numpy(dtype=bool))
     t_min, t_max = _arr(table, "temp_min_c"), _arr(table, "temp_max_c")
     fail("temperature_range", ~((t_min <= brief.temp_min_c) & (t_max >= brief.temp_max_c)))
@@ -258,7 +271,10 @@ def failure_mask(table: pd.DataFrame, brief: Brief) -> np.ndarray:
     min_stock = _optional(limits, "min_stock")
     if min_stock is not None:
         fail("stock", ~(_arr(table, "stock") >= min_stock))
-    return mask
+    # At another frequency the circuit figures are not computed (NaN): only the frequency
+    # and the catalog-level rules (range, package, lifecycle, ...) are reasons then.
+    circuit = sum(RULE_BIT[r] for r in ("never_starts", "caps", "margin", "drive", "budget"))
+    return np.where(wrong_frequency, mask & ~circuit, mask)
 
 
 def marginal_mask(table: pd.DataFrame, brief: Brief) -> np.ndarray:

@@ -401,7 +401,7 @@ def test_one_step_inversion_matches_the_iterated_physics() -> None:
         ]
     )
     b = brief(frequency="100 MHz")
-    out = analyze_parts(parts, b)
+    out = analyze_parts(parts, b, every_frequency=True)
     for i, row in enumerate(out.itertuples()):
         cl = parts["load_capacitance_f"].iloc[i]
         c1, c0, r1 = parts["c1_f"].iloc[i], parts["c0_f"].iloc[i], parts["esr_ohm"].iloc[i]
@@ -458,3 +458,18 @@ def test_equal_caps_kept_when_an_unequal_pair_gains_little() -> None:
     row = analyze_parts(table([part("P", load_capacitance_f=7e-12)]), b).iloc[0]
     assert (row["cap_a_f"], row["cap_b_f"]) == pytest.approx((8.2e-12, 8.2e-12))
     assert row["load_capacitance_f"] == pytest.approx(6.85e-12)
+
+
+def test_parts_at_other_frequencies_carry_catalog_figures_only() -> None:
+    parts = table([part("HERE"), part("ELSEWHERE", freq_hz=25e6, c0_f=float("nan"))])
+    out = analyze_parts(parts, brief())
+    here, elsewhere = out.iloc[0], out.iloc[1]
+    assert np.isfinite(here["negative_resistance_ohm"])
+    assert math.isnan(elsewhere["negative_resistance_ohm"])
+    assert elsewhere["frequency_hz"] == 25e6 and elsewhere["esr_ohm"] == 60.0
+    assert str(elsewhere["amplifier_form"]) == "gm"
+    full = analyze_parts(parts, brief(), every_frequency=True)
+    assert np.isfinite(full.iloc[1]["negative_resistance_ohm"])
+    assert list(out.columns) == list(full.columns)
+    for name in ("negative_resistance_ohm", "error_total_ppm", "cap_a_f"):
+        assert out[name].iloc[0] == full[name].iloc[0]

@@ -93,7 +93,9 @@ def test_first_reasons_carry_the_numbers(ranking) -> None:  # type: ignore[no-un
     assert "can never start" in first("NEVER")
     # NEVER also fails the margin rule, but never-starting is the more fundamental reason.
     assert len(ranking.reasons(ranking.row("NEVER"))) >= 2
-    assert first("WRONG-F") == "nominal 16.000016 MHz is not the brief's 16 MHz"
+    assert ranking.reasons(ranking.row("WRONG-F")) == [
+        "nominal 16.000016 MHz is not the brief's 16 MHz"
+    ]
     assert first("NARROW-T") == "rated −20…70 °C does not cover −40 °C or 85 °C"
     over = ranking.row("OVER-BUDGET")
     assert first("OVER-BUDGET") == (
@@ -258,3 +260,8 @@ def test_a_part_at_least_as_good_never_ranks_below_its_twin(
         return  # an exact tie (nothing improved enough to show): order falls to the name
     assert order.index("Z-TWIN") < order.index("B-BASE")
     assert np.isfinite(twin_row["score"])
+
+
+def test_equal_ruled_out_parts_keep_catalog_order() -> None:
+    parts = table([part("ZED", freq_hz=25e6), part("ALPHA", freq_hz=25e6), part("OK")])
+    assert rank_parts(parts, brief()).table["mpn"].tolist() == ["OK", "ZED", "ALPHA"]
