@@ -80,6 +80,13 @@ def _col(parts: pd.DataFrame, name: str) -> np.ndarray:
     return parts[name].to_numpy(dtype=float, na_value=np.nan)
 
 
+def _series_flags(parts: pd.DataFrame) -> np.ndarray:
+    """True for series-calibrated parts (no load capacitance in the catalog)."""
+    if "series_calibrated" in parts.columns:
+        return parts["series_calibrated"].to_numpy(dtype=bool)
+    return np.isnan(_col(parts, "load_capacitance_f"))
+
+
 def _factor(parts: pd.DataFrame, name: str) -> tuple[np.ndarray, np.ndarray]:
     """Integer codes per row and the labels they index (the last label is "" for missing).
 
@@ -182,6 +189,13 @@ def _spread_rows(
             columns[name] = values
     columns["frequency_hz"] = f_nom
     columns["budget_ppm"] = np.full(n, float(brief.budget_ppm))
+    # Catalog figures stay visible for every part (NaN only where the catalog is silent).
+    for target, source in (("c0_f", "c0_f"), ("c1_f", "c1_f"), ("l1_h", "l1_h")):
+        given = _col(parts, source).copy()
+        given[rows] = computed[target].to_numpy(dtype=float)
+        columns[target] = given
+    spec = np.where(_series_flags(parts), np.nan, _col(parts, "load_capacitance_f"))
+    columns["spec_load_capacitance_f"] = spec
     columns["amplifier_form"] = _constant(n, brief.amplifier.form)
     ordered = {name: columns[name] for name in computed.columns}
     return pd.DataFrame(ordered, index=parts.index, copy=False)
@@ -194,11 +208,7 @@ def _analyze_rows(parts: pd.DataFrame, brief: Brief) -> pd.DataFrame:
     f_nom = _col(parts, "freq_hz")
     r1 = _col(parts, "esr_ohm")
     cl_spec = _col(parts, "load_capacitance_f")
-    series = (
-        parts["series_calibrated"].to_numpy(dtype=bool)
-        if "series_calibrated" in parts.columns
-        else np.isnan(cl_spec)
-    )
+    series = _series_flags(parts)
     cl_spec = np.where(series, np.nan, cl_spec)
 
     # Missing C0/C1/cut: typical values by package, mode and cut, flagged per part.

@@ -96,7 +96,7 @@ def part_object(row: pd.Series, brief: Brief) -> dict[str, Any]:
         "spec_load_capacitance_f": _float(row["spec_load_capacitance_f"]),
         "load_capacitance_f": _float(row["load_capacitance_f"]),
         "external_caps_f": [cap_a, cap_b] if cap_a is not None and cap_b is not None else None,
-        "caps_source": str(row["caps_source"]),
+        "caps_source": _text(row["caps_source"]),
         "internal_cap_code": _text(row["internal_cap_code"]),
         "pulling_ppm": _float(row["pulling_ppm"]),
         "trim_sensitivity_ppm_per_pf": _float(row["trim_sensitivity_ppm_per_pf"]),
@@ -118,6 +118,8 @@ def part_object(row: pd.Series, brief: Brief) -> dict[str, Any]:
         "reasons": reasons_for_row(row, brief),
         "estimated": estimated_fields(row),
         "amplifier_form": str(row["amplifier_form"]),
+        "circuit_computed": _float(row["negative_resistance_max_ohm"]) is not None
+        or _float(row["gm_critical_s"]) is not None,
         "drive_setting": _text(row["drive_setting"]),
         "score": _float(row["score"]),
         "declared": {
@@ -340,11 +342,17 @@ def part_sheet(row: pd.Series, brief: Brief) -> str:
     lines = [
         f"{row['mpn']}  ({_text(row.get('maker')) or 'maker not given'}, "
         f"package {_text(row.get('package')) or '?'}, {_text(row.get('mode')) or 'fundamental'}, "
-        f"cut {row['cut']}{' (inferred)' if 'cut' in est else ''})",
+        f"cut {_text(row['cut']) or 'not given'}{' (inferred)' if 'cut' in est else ''})",
         f"status: {STATUS_MARK.get(status, status)}   score {num(row['score'], 2)}   "
         f"brief: {_clip(brief.name, 40)}",
     ]
     lines += wrap("; ".join(reasons), indent="  ") if reasons else []
+    if _float(row["gm_critical_s"]) is None and _float(row["fs_hz"]) is None:
+        lines += wrap(
+            "Circuit figures are not computed for a part at another frequency than the "
+            "brief's; give a brief at its frequency to see them.",
+            indent="  ",
+        )
     lines.append("")
 
     def section(title: str, items: Iterable[tuple[str, str, str]]) -> None:
