@@ -148,6 +148,12 @@ def test_language_tag_in_a_brief_runs_nothing(corpus: Path, run_cli: RunCli) -> 
     assert not marker.exists()
 
 
+def _endless(folder: Path) -> Path:
+    path = folder / "endless.yaml"
+    path.symlink_to("/dev/zero")
+    return path
+
+
 def test_brief_that_is_a_directory_missing_or_a_pipe(corpus: Path, run_cli: RunCli) -> None:
     catalog = write_catalog(corpus, "parts.csv", GOOD_ROWS)
     folder = corpus / "briefs"
@@ -156,6 +162,7 @@ def test_brief_that_is_a_directory_missing_or_a_pipe(corpus: Path, run_cli: RunC
         (folder, "is a directory"),
         (corpus / "nope.yaml", "No such file"),
         (make_fifo(corpus, "pipe.yaml"), "the brief is empty"),
+        (_endless(corpus), "larger than"),
     ]
     for path, words in cases:
         with bounded(), pytest.raises(BriefError, match=words):

@@ -27,6 +27,7 @@ from tests.hostile.conftest import (
     bounded,
     make_fifo,
     part_row,
+    snapshot,
     write_catalog,
 )
 
@@ -244,6 +245,8 @@ def _check_row_problems(problems: list[dict[str, object]], path: Path) -> None:
 @pytest.mark.parametrize("case", CASES, ids=[case.name for case in CASES])
 def test_lint_json(case: Case, corpus: Path, run_cli: RunCli) -> None:
     path = case.build(corpus)
+    table = run_cli("lint", str(path))  # the table format: same exit code, no traceback
+    assert table.code == case.lint_code, table.err
     run = run_cli("lint", str(path), "--format", "json")
     assert run.code == case.lint_code, run.err
     if case.rows_loaded is None:
@@ -276,6 +279,8 @@ def test_rank(case: Case, corpus: Path, run_cli: RunCli, brief_file: Path) -> No
         assert run.code == 2
         assert run.out == ""
         assert path.name in run.err
+        run = run_cli("analyze", "QN16-A", "--catalog", str(path), "--brief", str(brief_file))
+        assert run.code == 2 and run.out == "" and path.name in run.err
         return
     assert run.code == 0, run.err
     ranked = run.json()
@@ -287,6 +292,7 @@ def test_rank(case: Case, corpus: Path, run_cli: RunCli, brief_file: Path) -> No
 @pytest.mark.parametrize("case", CASES, ids=[case.name for case in CASES])
 def test_library(case: Case, corpus: Path) -> None:
     path = case.build(corpus)
+    before = snapshot(corpus)
     start = time.perf_counter()
     with bounded():
         try:
@@ -295,7 +301,9 @@ def test_library(case: Case, corpus: Path) -> None:
             assert case.rows_loaded is None, str(error)
             assert str(path) in str(error) and case.words in str(error)
             assert "\n" not in str(error)
+            assert snapshot(corpus) == before
             return
+    assert snapshot(corpus) == before
     assert time.perf_counter() - start < 20.0
     assert case.rows_loaded is not None
     assert len(result.parts) == case.rows_loaded
@@ -426,3 +434,29 @@ def test_size_limit_is_checked_before_reading(corpus: Path) -> None:
         load_catalogs([path])
     assert time.perf_counter() - start < 1.0
     assert os.stat(path).st_blocks < 100  # still sparse: nothing was written to it
+
+
+@pytest.mark.parametrize(
+    ("field", "cell", "words"),
+    [
+        ("esr", "16 MHz", "expected a resistance"),
+        ("esr", "-40 ohm", "negative"),
+        ("frequency", "16 pF", "expected a frequency"),
+        ("load_capacitance", "inf pF", "expected"),
+        ("tolerance", "ten ppm", "expected"),
+        ("temp_max", "85 ohm", "expected a temperature"),
+    ],
+)
+def test_row_problem_quotes_line_field_and_raw_text(
+    corpus: Path, run_cli: RunCli, field: str, cell: str, words: str
+) -> None:
+    columns = HEADER.split(",")
+    cells = part_row("QN-ONE").split(",")
+    cells[columns.index(field)] = cell
+    path = write_catalog(corpus, "one.csv", [GOOD_ROWS[0], GOOD_ROWS[1], ",".join(cells)])
+    report = run_cli("lint", str(path), "--format", "json").json()
+    assert isinstance(report, dict)
+    (problem,) = [p for p in report["problems"] if p["severity"] == "error"]
+    assert (problem["path"], problem["line"], problem["field"]) == (str(path), 4, field)
+    assert problem["raw"] == cell and words in problem["message"]
+    assert report["rows_loaded"] == 2
