@@ -329,6 +329,8 @@ def _alternates(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
     parts = _load_parts(args, err)
     brief = _load_brief(args) if _option(args, "brief") or _option(args, "preset") else None
     status = EXIT_OK
+    objects: dict[str, Any] = {}
+    csv_parts: list[str] = []
     for text in args.mpns:
         reference = _resolve(parts, text, err)
         result = find_alternates(parts, reference, brief)
@@ -337,15 +339,23 @@ def _alternates(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
             top = TABLE_ROWS
         rows = result.top(top)
         if args.format == "json":
-            out.write(report.to_json(report.alternates_objects(result, rows)))
+            objects[reference] = report.alternates_objects(result, rows)
         elif args.format == "csv":
-            out.write(report.alternates_csv(result, rows))
+            text_csv = report.alternates_csv(result, rows)
+            # One header for several references: the rows carry their reference.
+            csv_parts.append(text_csv if not csv_parts else text_csv.split("\n", 1)[1])
         else:
             out.write(report.alternates_table(result, rows))
         counts = result.counts()
         if counts["drop_in"] + counts["drop_in_new_caps"] == 0:
             print(f"picker: no drop-in alternate for {reference}", file=err)
             status = EXIT_FINDING
+    if args.format == "json":
+        # One reference: its list; several: an object keyed by reference part number.
+        single = len(objects) == 1
+        out.write(report.to_json(next(iter(objects.values())) if single else objects))
+    elif args.format == "csv":
+        out.write("".join(csv_parts))
     return status
 
 

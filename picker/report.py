@@ -544,13 +544,14 @@ def alternates_objects(result: Any, rows: Sequence[Any]) -> list[dict[str, Any]]
 
 
 def alternates_csv(result: Any, rows: Sequence[Any]) -> str:
-    columns = ["rank", "mpn", "fit", "new_cap_a_f", "new_cap_b_f", "differences"]
+    columns = ["reference", "rank", "mpn", "fit", "new_cap_a_f", "new_cap_b_f", "differences"]
     with_brief = result.brief is not None
     if with_brief:
         columns += ["status", "negative_resistance_margin", "error_total_ppm"]
     records = []
     for rank, alt in enumerate(rows, start=1):
         record: dict[str, Any] = {
+            "reference": result.reference_mpn,
             "rank": rank,
             "mpn": alt.mpn,
             "fit": alt.fit,

@@ -333,3 +333,22 @@ def test_text_output_fits_80_columns(
     out = capsys.readouterr().out
     assert out
     assert max(len(line) for line in out.splitlines()) <= 80
+
+
+def test_several_references_give_one_json_document_and_one_csv_header(
+    capsys: pytest.CaptureFixture[str], files: dict[str, str]
+) -> None:
+    _, out, _ = run(
+        capsys, "alternates", "GOOD-1", "GOOD-2", "--catalog", files["catalog"], "--format", "json"
+    )
+    assert set(json.loads(out)) == {"GOOD-1", "GOOD-2"}
+    _, out, _ = run(
+        capsys, "alternates", "GOOD-1", "GOOD-2", "--catalog", files["catalog"], "--format", "csv"
+    )
+    assert out.count("reference,rank,mpn") == 1
+    rows = list(csv.DictReader(io.StringIO(out)))
+    assert {r["reference"] for r in rows} == {"GOOD-1", "GOOD-2"}
+    _, out, _ = run(
+        capsys, "analyze", "GOOD-1", "GOOD-2", "--catalog", files["catalog"], "--format", "json"
+    )
+    assert [o["mpn"] for o in json.loads(out)] == ["GOOD-1", "GOOD-2"]
