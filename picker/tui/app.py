@@ -122,14 +122,16 @@ class PickerApp(App[int]):
             with TabbedContent(initial="tab-shortlist", id="tabs"):
                 with TabPane("Brief (b)", id="tab-brief"):
                     yield BriefPane(self.core, id="brief")
-                with TabPane("Shortlist (s)", id="tab-shortlist"):
-                    with Horizontal(id="shortlist-row"):
-                        with Vertical(id="shortlist-column"):
-                            yield ShortlistView(id="shortlist")
-                            yield Static("", id="shortlist-detail", markup=False)
-                        # On wide terminals the sheet of the highlighted part sits beside
-                        # the list, so both are read at once.
-                        yield PartSheetView(id="side-sheet")
+                with (
+                    TabPane("Shortlist (s)", id="tab-shortlist"),
+                    Horizontal(id="shortlist-row"),
+                ):
+                    with Vertical(id="shortlist-column"):
+                        yield ShortlistView(id="shortlist")
+                        yield Static("", id="shortlist-detail", markup=False)
+                    # On wide terminals the sheet of the highlighted part sits beside the
+                    # list, so both are read at once.
+                    yield PartSheetView(id="side-sheet")
                 with TabPane("Part sheet (p)", id="tab-sheet"):
                     yield PartSheetView(id="sheet")
                 with TabPane("Ruled out (r)", id="tab-ruled-out"):

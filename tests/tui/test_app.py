@@ -266,13 +266,13 @@ async def test_enter_on_a_ruled_out_part_opens_its_sheet(real_app: PickerApp) ->
         await pilot.press("enter")
         await settle(real_app, pilot)
         assert real_app.query_one("#tabs", TabbedContent).active == "tab-sheet"
-        sheet = real_app.query_one(PartSheetView).sheet
+        sheet = real_app.query_one("#sheet", PartSheetView).sheet
         assert sheet is not None and sheet.mpn == "MB12-F"
         assert sheet.status == "ruled_out" and "12 MHz" in sheet.reasons[0]
         # p brings back the sheet of the highlighted shortlist part.
         await pilot.press("p")
         await settle(real_app, pilot)
-        assert real_app.query_one(PartSheetView).sheet.mpn == "TK16-A"  # type: ignore[union-attr]
+        assert real_app.query_one("#sheet", PartSheetView).sheet.mpn == "TK16-A"  # type: ignore[union-attr]
 
 
 async def test_a_missing_catalog_is_a_message_not_a_crash(tmp_path: Path) -> None:
@@ -304,3 +304,19 @@ async def test_a_broken_brief_opens_on_the_brief_with_the_error(
         await type_into(pilot, gm_input(app), "20 mA/V")
         await settle(app, pilot)
         assert list(app.query_one(ShortlistView).mpns[:1]) == ["TK16-A"]
+
+
+async def test_wide_terminal_shows_the_sheet_beside_the_list(real_app: PickerApp) -> None:
+    from picker.tui.sheet import PartSheetView
+
+    async with real_app.run_test(size=(160, 40)) as pilot:
+        await settle(real_app, pilot)
+        side = real_app.query_one("#side-sheet", PartSheetView)
+        assert side.region.width > 40
+        assert side.sheet is not None and side.sheet.mpn == "TK16-A"
+        await pilot.press("down")
+        await settle(real_app, pilot)
+        assert side.sheet.mpn == "TK16-B"  # type: ignore[union-attr]
+        await pilot.resize_terminal(100, 30)
+        await pilot.pause()
+        assert side.region.width == 0
