@@ -27,6 +27,7 @@ from rapidfuzz import fuzz, process, utils
 
 from catalog.problems import CatalogError, Problem
 from catalog.schema import FIELDS, FIELDS_BY_NAME, TEMP_RANGE_FIELD, FieldSpec, normalise_header
+from catalog.textfile import read_capped
 from catalog.units import UnitError, parse_quantity
 
 __all__ = [
@@ -326,7 +327,8 @@ def load_mapping(path: str | Path) -> HeaderMapping:
     """
     source = str(path)
     try:
-        data_bytes = Path(path).read_bytes()
+        # Capped and non-blocking: /dev/zero or a pipe with no writer must not hang us.
+        data_bytes = read_capped(Path(path), _MAX_MAPPING_BYTES + 1)
     except OSError as error:
         raise CatalogError(f"{source}: cannot read mapping file ({error.strerror})") from None
     if len(data_bytes) > _MAX_MAPPING_BYTES:

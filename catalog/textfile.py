@@ -17,7 +17,7 @@ from typing import Final
 from catalog.problems import CatalogError, Problem
 from catalog.rawtable import Limits
 
-__all__ = ["DecodedText", "decode_catalog_bytes", "read_catalog_bytes"]
+__all__ = ["DecodedText", "decode_catalog_bytes", "read_capped", "read_catalog_bytes"]
 
 # File signatures of things people save instead of a CSV, with what to tell them.
 _SIGNATURES: Final[tuple[tuple[bytes, str], ...]] = (
@@ -66,7 +66,7 @@ def read_catalog_bytes(path: Path, limits: Limits) -> bytes:
             "a catalog file may have; split it into several files"
         )
     try:
-        data = _read_capped(path, limits.max_file_bytes + 1)
+        data = read_capped(path, limits.max_file_bytes + 1)
     except OSError as error:
         raise CatalogError(f"{shown}: cannot read ({error.strerror or error})") from None
     if len(data) > limits.max_file_bytes:  # grew while we looked, or a device file
@@ -76,7 +76,7 @@ def read_catalog_bytes(path: Path, limits: Limits) -> bytes:
     return data
 
 
-def _read_capped(path: Path, most: int) -> bytes:
+def read_capped(path: Path, most: int) -> bytes:
     """Up to ``most`` bytes of a file, a pipe or a device.
 
     Opened non-blocking: a named pipe with no writer would otherwise block open() forever;
