@@ -532,7 +532,7 @@ def alternates_objects(result: Any, rows: Sequence[Any]) -> list[dict[str, Any]]
             "mpn": alt.mpn,
             "fit": alt.fit,
             "differences": list(alt.differences),
-            "new_caps_f": list(alt.new_caps_f) if alt.new_caps_f else None,
+            "new_caps_f": [_float(c) for c in alt.new_caps_f] if alt.new_caps_f else None,
         }
         analysis = result.analysis_row(alt.position)
         if analysis is not None and result.brief is not None:
