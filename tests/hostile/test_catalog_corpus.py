@@ -460,3 +460,49 @@ def test_row_problem_quotes_line_field_and_raw_text(
     assert (problem["path"], problem["line"], problem["field"]) == (str(path), 4, field)
     assert problem["raw"] == cell and words in problem["message"]
     assert report["rows_loaded"] == 2
+
+
+def test_hostile_mapping_files(corpus: Path, run_cli: RunCli) -> None:
+    """The --map file is the user's too: endless, piped, binary or a folder gives exit 2."""
+    catalog = write_catalog(corpus, "parts.csv", GOOD_ROWS)
+    endless = corpus / "endless_map.yaml"
+    endless.symlink_to("/dev/zero")
+    garbage = corpus / "garbage_map.yaml"
+    garbage.write_bytes(_garbage(3000))
+    folder = corpus / "map_folder"
+    folder.mkdir()
+    cases = [
+        (make_fifo(corpus, "pipe_map.yaml"), "maps headers to fields"),
+        (endless, "larger than"),
+        (garbage, "mapping file"),
+        (folder, "cannot read"),
+    ]
+    for mapping, words in cases:
+        run = run_cli("lint", str(catalog), "--map", str(mapping))
+        assert run.code == 2 and mapping.name in run.err and words in run.err, run.err
+        run = run_cli("rank", "--catalog", str(catalog), "--map", str(mapping))
+        assert run.code == 2 and mapping.name in run.err
+
+
+def test_alternates_json_with_a_brief_is_valid_json(
+    corpus: Path, run_cli: RunCli, brief_file: Path
+) -> None:
+    """A part whose new caps cannot be computed (NaN) must still give strict JSON (RFC 8259
+    has no NaN), not an 'unexpected error'."""
+    rows = [
+        *GOOD_ROWS,
+        part_row("QN16-HI").replace("8 pF", "30 pF"),
+        part_row("QN16-SER").replace("8 pF", "series"),
+        part_row("QN12-X", frequency="12 MHz"),  # another frequency: no caps can match
+    ]
+    catalog = write_catalog(corpus, "parts.csv", rows)
+    run = run_cli(
+        "alternates", "QN16-A", "--catalog", str(catalog), "--brief", str(brief_file),
+        "--format", "json",
+    )  # fmt: skip
+    assert run.code in (0, 1), run.err
+    assert "unexpected error" not in run.err
+    alternates = run.json()
+    assert isinstance(alternates, list) and len(alternates) == len(rows) - 1
+    other = next(a for a in alternates if a["mpn"] == "QN12-X")
+    assert other["fit"] == "incompatible" and other["new_caps_f"] in (None, [None, None])
