@@ -66,11 +66,8 @@ def frequency_error_budget(
             for t in (tolerance_ppm, temperature_ppm, aging_ppm, pulling_ppm, spread_ppm)
         )
     )
-    # hypot neither under- nor overflows, so the RSS needs no scaling; no 5-row stack either
-    rss = np.hypot(np.hypot(np.hypot(np.hypot(tolerance, temperature), aging), pulling), spread)
     total = tolerance + temperature + aging + pulling + spread
-    # hypot(inf, NaN) is inf; a missing term must leave the RSS unknown, as it does the sum
-    rss = np.where(np.isnan(total), np.nan, rss)
+    rss = _root_sum_square(tolerance, temperature, aging, pulling, spread)
     return ErrorBudget(
         tolerance_ppm=to_float(tolerance),
         temperature_ppm=to_float(temperature),
@@ -171,3 +168,26 @@ def clock_error_s(error_ppm: ArrayLike, interval_s: ArrayLike) -> FloatArray:
     1 ppm is 0.0864 s per day.
     """
     return to_float(as_float(error_ppm) * 1e-6 * as_float(interval_s))
+
+
+def _root_sum_square(*terms: FloatArray) -> FloatArray:
+    # √(Σ t²) directly (no 5-row stack, no scaling pass); only rows whose sum of squares
+    # left the safe range (a term beyond ~1e145 or below ~1e-145, or NaN/inf) are redone
+    # with hypot, which neither overflows nor underflows
+    with np.errstate(over="ignore", under="ignore", invalid="ignore"):
+        sum_squares = terms[0] * terms[0]
+        for term in terms[1:]:
+            sum_squares = sum_squares + term * term
+        rss = np.sqrt(sum_squares)
+    redo = ~((sum_squares > 1e-290) & (sum_squares < 1e290))
+    if not np.any(redo):
+        return np.asarray(rss)
+    rss = np.array(rss, dtype=np.float64)  # writable, also for 0-d inputs
+    picked = [np.broadcast_to(term, rss.shape)[redo] for term in terms]
+    redone = picked[0]
+    for term in picked[1:]:
+        redone = np.hypot(redone, term)
+    # hypot(inf, NaN) is inf: a missing term must leave the RSS unknown, as it does the sum
+    redone = np.where(np.isnan(sum(picked)), np.nan, redone)
+    rss[redo] = redone
+    return rss

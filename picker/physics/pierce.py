@@ -377,40 +377,54 @@ def pierce_optimum(coefficients: PierceCoefficients) -> PierceOptimum:
     k = coefficients
     a = k.a2 * k.q1 - k.a1 * k.q2
     b = 2.0 * (k.a2 * k.q0 - k.a0 * k.q2)
+    b += 0.0  # −0 becomes +0, so copysign below splits the roots exactly as b ≥ 0 does
     c = k.a1 * k.q0 - k.a0 * k.q1
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
         sq = np.sqrt(b * b - 4.0 * a * c)
-        b_positive = b >= 0.0
         # both roots in stable forms from h = −(b + sign(b)·√disc)/2: h/a and c/h (a may
         # vanish: lossless, q1 = a2 = 0 gives b = 0 too)
-        half = -0.5 * (b + np.where(b_positive, sq, -sq))
+        half = -0.5 * (b + np.copysign(sq, b))
         root_h = half / a
         root_c = c / half
         re_h = _usable_real_part(k, root_h)
         re_c = _usable_real_part(k, root_c)
-    # the smaller Re(Zc) wins; on a tie the root (−b ∓ √disc)/(2a) form ranks first
-    pick_h = np.where(b_positive, re_h <= re_c, re_h < re_c)
-    gm_opt = np.where(pick_h, root_h, root_c)
-    re_min = np.where(pick_h, re_h, re_c)
-    negative = re_min < 0.0  # re_min is finite or +inf, never NaN
-    rneg_max = np.where(negative, -re_min, 0.0)
+    # the smaller Re(Zc) wins; on a tie the root (−b ∓ √disc)/(2a) ranks first, which is h/a
+    # when b ≥ 0. Re is finite or +inf here (never NaN), so min and the comparisons are exact.
+    # np.where costs ~10 plain operations on a mixed mask, hence the boolean forms.
+    pick_h = (re_h < re_c) | ((re_h == re_c) & (b >= 0.0))
+    gm_opt = _select(pick_h, root_h, root_c)
+    re_min = np.minimum(re_h, re_c)
+    negative = re_min < 0.0
+    rneg_max = np.asarray(np.maximum(-re_min, 0.0) + 0.0)  # + 0.0: Re(Zc) = +0 gives +0
     np.copyto(gm_opt, np.nan, where=~negative)
     # nothing across the crystal (Y3 = 0): Re(Zc) = a1·gm/q0 falls without bound
-    unbounded = (k.q2 == 0.0) & (k.q1 == 0.0) & (k.a2 == 0.0) & (k.a1 < 0.0)
-    np.copyto(gm_opt, np.inf, where=unbounded)
-    np.copyto(rneg_max, np.inf, where=unbounded)
+    unbounded = k.q2 == 0.0
+    if unbounded.any():
+        unbounded &= (k.q1 == 0.0) & (k.a2 == 0.0) & (k.a1 < 0.0)
+        np.copyto(gm_opt, np.inf, where=unbounded)
+        np.copyto(rneg_max, np.inf, where=unbounded)
     missing = np.isnan(k.a1) | np.isnan(k.q0) | np.isnan(k.a2) | np.isnan(k.q2)
     np.copyto(gm_opt, np.nan, where=missing)
     np.copyto(rneg_max, np.nan, where=missing)
     return PierceOptimum(to_float(gm_opt), to_float(rneg_max))
 
 
+def _select(pick: BoolArray, first: FloatArray, second: FloatArray) -> FloatArray:
+    # np.where(pick, first, second) as a fresh array; uniform masks (the usual case for
+    # one circuit over a table) skip the element-wise select
+    if pick.all():
+        return np.array(np.broadcast_to(first, pick.shape), dtype=np.float64)
+    if not pick.any():
+        return np.array(np.broadcast_to(second, pick.shape), dtype=np.float64)
+    return np.asarray(np.where(pick, first, second), dtype=np.float64)
+
+
 def _usable_real_part(k: PierceCoefficients, gm: FloatArray) -> FloatArray:
     # Re(Zc) at a candidate root; +inf where the root is no real positive transconductance
+    # (an infinite root makes the value NaN, so it needs no test of its own)
     gm2 = gm * gm
     value = (k.a2 * gm2 + k.a1 * gm + k.a0) / (k.q2 * gm2 + k.q1 * gm + k.q0)
-    usable = (gm > 0.0) & np.isfinite(gm) & np.isfinite(value)
-    return np.where(usable, value, np.inf)
+    return np.asarray(np.where((gm > 0.0) & np.isfinite(value), value, np.inf))
 
 
 def negative_resistance_from(coefficients: PierceCoefficients, gm: ArrayLike) -> FloatArray:
