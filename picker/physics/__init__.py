@@ -39,6 +39,15 @@ pierce.py — Pierce oscillator, small signal (Vittoz, Degrauwe & Bitz, IEEE JSS
         amplifier pulling included (gm settles at gm_crit) [Hz]; NaN if it cannot start
     negative_resistance_margin(rneg, r1) -> M = |Rneg|/R1
     gain_margin(gm, gm_crit) -> gm/gm_crit
+    One network, many figures (build the coefficients once; none depends on gm or R1):
+    pierce_coefficients(omega, cg, cd, c3, g1=0, g2=0, g3=0) -> PierceCoefficients(a2, a1,
+        a0, q2, q1, q0): Re(Zc) = (a2 gm^2 + a1 gm + a0)/(q2 gm^2 + q1 gm + q0)
+    pierce_optimum(coefficients) -> PierceOptimum(gm_opt, rneg_max) [S, ohm], the same values
+        as optimum_transconductance and max_negative_resistance from one evaluation
+    critical_transconductance_from(coefficients, r1) -> gm_crit [S], the same values as
+        critical_transconductance
+    negative_resistance_from(coefficients, gm) -> Re(Zc) [ohm], negative_resistance to
+        rounding
 drive.py
     drive_level(r1, f, vpp, c0, cl) -> P [W] (first-order, slightly conservative)
 startup.py
@@ -128,16 +137,22 @@ from picker.physics.estimates import (
     typical_max_drive_level_w,
 )
 from picker.physics.pierce import (
+    PierceCoefficients,
+    PierceOptimum,
     board_load_capacitance,
     can_start,
     critical_transconductance,
+    critical_transconductance_from,
     gain_margin,
     max_negative_resistance,
     negative_resistance,
+    negative_resistance_from,
     negative_resistance_margin,
     optimum_transconductance,
     oscillation_frequency,
+    pierce_coefficients,
     pierce_impedance,
+    pierce_optimum,
     steady_state_frequency,
 )
 from picker.physics.startup import startup_time, startup_time_constant
@@ -156,6 +171,8 @@ __all__ = [
     "DriftBounds",
     "ErrorBudget",
     "MotionalEstimate",
+    "PierceCoefficients",
+    "PierceOptimum",
     "aging_ppm",
     "at_cut_best_angle_deg",
     "at_cut_drift_bounds_ppm",
@@ -167,6 +184,7 @@ __all__ = [
     "choose_unequal_pair",
     "clock_error_s",
     "critical_transconductance",
+    "critical_transconductance_from",
     "drive_level",
     "estimate_motional_capacitances",
     "frequency_error_budget",
@@ -183,13 +201,16 @@ __all__ = [
     "max_negative_resistance",
     "motional_inductance",
     "negative_resistance",
+    "negative_resistance_from",
     "negative_resistance_margin",
     "normalise_package",
     "optimum_transconductance",
     "oscillation_frequency",
     "overtone_order",
     "parallel_resonance",
+    "pierce_coefficients",
     "pierce_impedance",
+    "pierce_optimum",
     "pulling_ppm",
     "pulling_range_ppm",
     "quality_factor",

@@ -373,6 +373,16 @@ def pierce_optimum(coefficients: PierceCoefficients) -> PierceOptimum:
     d Re(Zc)/d gm = 0 for Re(Zc) = P/Q is
     (a2·q1 − a1·q2)·gm² + 2·(a2·q0 − a0·q2)·gm + (a1·q0 − a0·q1) = 0; the positive root
     with the most negative Re(Zc) is the optimum (Vittoz et al., IEEE JSSC 1988).
+
+    Examples
+    --------
+    16 MHz, Cg = Cd = 18 pF, C3 = 7 pF, lossless (closed forms ω·K/C3 and
+    Cg·Cd/(2·ω·C3·K), K = Cg·Cd + C3·(Cg + Cd)):
+
+    >>> k = pierce_coefficients(2 * np.pi * 16e6, 18e-12, 18e-12, 7e-12)
+    >>> best = pierce_optimum(k)
+    >>> print(f"{float(best.gm_opt) * 1e3:.2f} mA/V, {float(best.rneg_max):.1f} ohm")
+    8.27 mA/V, 399.7 ohm
     """
     k = coefficients
     a = k.a2 * k.q1 - k.a1 * k.q2
