@@ -314,7 +314,8 @@ class PickerApp(App[int]):
         row = self.shortlist.rows.iloc[view.cursor]
         status, _ = status_cells(str(row["status"]))
         self._detail_text = (
-            f"{status.strip()} {mpn}: margin {row['margin']:.3g}, "
+            f"{status.strip()} {mpn}: margin {row['margin']:.3g} "
+            f"(≥ {row['margin_required']:.3g}), "
             f"gain {row['gain_margin']:.3g}, {row['total_ppm']:.3g} of "
             f"{self.shortlist.budget_ppm:.4g} ppm · enter: sheet"
         )

@@ -16,9 +16,10 @@ FIGURES = (
     ("status", "✔ fit: passes every rule; △ marg: passes but near a limit; ✘ out: fails one"),
     ("scr", "score 0–100 from margin, budget headroom, drive headroom, price, stock, lifecycle"),
     (
-        "margn",
-        "negative-resistance margin |Rneg|/ESR with the chosen caps (bar: 0 to 2× the "
-        "brief's minimum, ┆ marks the minimum, › beyond)",
+        "margin",
+        "the figure ranked on: |Rneg|/ESR with the chosen caps (gm forms), the chip's "
+        "gm_crit max / the part's gm_crit, or the chip's allowed ESR / ESR; bar: 0 to 2× the "
+        "required value, ┆ marks it, › beyond",
     ),
     (
         "ppm",

@@ -35,11 +35,13 @@ SHORTLIST_COLUMNS = (
     "spec_cl_f",
     "esr_ohm",
     "margin",
+    "margin_required",
     "gain_margin",
     "total_ppm",
     "headroom_ppm",
 )
-"""Columns of `Shortlist.rows`; floats in SI (F, ohm), ppm, plain ratios."""
+"""Columns of `Shortlist.rows`; floats in SI (F, ohm), ppm, plain ratios. `margin` is the
+figure the ranking compares with `margin_required` for the brief's amplifier form."""
 
 RULED_OUT_COLUMNS = ("key", "mpn", "package", "first_reason")
 """Columns of `Shortlist.ruled_out`: `key` is handed back to `Core.reasons_at`; `first_reason`

@@ -114,7 +114,6 @@ class ShortlistView(RowList):
         cl_text = "  ser" if not math.isfinite(cl) else _number(cl * 1e12, 5)
         margin = float(col["margin"][index])
         total = float(col["total_ppm"][index])
-        sl = self._shortlist
         cells: Cells = [
             (status, style),
             (f" {_score_text(float(col['score'][index]))} ", None),
@@ -123,9 +122,9 @@ class ShortlistView(RowList):
             (f"{cl_text} ", None),
             (f"{_number(float(col['esr_ohm'][index]), 5, 0)} ", None),
             (f"{_number(margin, 5)}×", None),
-            (margin_bar(margin, sl.min_margin, bar), style),
+            (margin_bar(margin, float(col["margin_required"][index]), bar), style),
             (f" {_number(total, 5)} ", None),
-            (budget_bar(total, sl.budget_ppm, bar), style),
+            (budget_bar(total, self._shortlist.budget_ppm, bar), style),
         ]
         if width >= self.WIDE:
             cells.append((f" {_number(float(col['gain_margin'][index]), 5)}×", None))

@@ -138,6 +138,7 @@ class FrozenCore:
                 "spec_cl_f": cl,
                 "esr_ohm": parts["esr_ohm"],
                 "margin": margin,
+                "margin_required": np.full(len(margin), brief["min_margin"]),
                 "gain_margin": margin * 1.5,
                 "total_ppm": total,
                 "headroom_ppm": headroom,

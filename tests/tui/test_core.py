@@ -113,6 +113,7 @@ def million_row_shortlist() -> Shortlist:
             "spec_cl_f": np.full(n, 12e-12),
             "esr_ohm": rng.uniform(20, 100, n),
             "margin": rng.uniform(5, 20, n),
+            "margin_required": np.full(n, 5.0),
             "gain_margin": rng.uniform(5, 30, n),
             "total_ppm": rng.uniform(10, 50, n),
             "headroom_ppm": rng.uniform(0, 40, n),
@@ -168,3 +169,21 @@ async def test_the_app_keeps_its_selection_when_the_part_stays(frozen_app: Picke
         assert view.current_mpn() == chosen
         view.show(frozen_app.shortlist, keep="NOT-LISTED")
         assert view.cursor == 0
+
+
+def test_max_esr_form_shows_the_ranked_ratio(catalog_files, monkeypatch) -> None:  # type: ignore[no-untyped-def]
+    # With a chip ESR table the figure ranked on is allowed ESR / ESR against 1 (DESIGN §6);
+    # TK16-A (CL 8 pF, ESR 40 Ω) against a flat 100 Ω table: 100 / 40 = 2.5.
+    monkeypatch.setenv("PICKER_NO_CACHE", "1")
+    catalog, brief_path = catalog_files
+    core = PickerCore()
+    loaded = core.load([catalog], None, None)
+    data = core.read_brief(brief_path)
+    amplifier = dict(data["amplifier"])  # type: ignore[call-overload]
+    amplifier.pop("gm")
+    amplifier["max_esr"] = {"6 pF": "100 ohm", "20 pF": "100 ohm"}
+    data["amplifier"] = amplifier
+    shortlist = core.rank(loaded.parts, core.check_brief(data))
+    row = shortlist.rows.set_index("mpn").loc["TK16-A"]
+    assert row["margin"] == pytest.approx(2.5)
+    assert row["margin_required"] == 1.0
