@@ -394,6 +394,12 @@ class PickerCore:
                 "computed",
                 f"brief asks ≥ {b.limits.min_margin:g} (common practice)",
             ),
+            Figure(
+                "margin ranked on",
+                f"{_ratio(row.get('form_margin'))} (needs ≥ {_ratio(row.get('form_margin_required'))})",
+                "computed",
+                f"the {row.get('amplifier_form', '')} form's figure against its requirement",
+            ),
             Figure("gm critical", _quantity(row["gm_critical_s"], "transconductance"), "computed"),
             Figure(
                 "gm optimum",
