@@ -434,7 +434,10 @@ def _new_caps_text(
         source = str(alt_analysis["caps_source"])
         if source == "internal":
             code = _s(alt_analysis["internal_cap_code"])
-            return None, f"{head}: set the chip's load capacitance to {code}"
+            internal = brief.amplifier.internal_caps if brief is not None else None
+            per_pin = internal is None or internal.applies_to == "each_pin"
+            where = " (each pin)" if per_pin else " (load)"
+            return None, f"{head}: change the chip's load-capacitor setting to {code}{where}"
         if source == "fixed":
             pulling = _f(alt_analysis["pulling_ppm"])
             return None, f"{head}: with the brief's fixed caps it is pulled {pulling:+.1f} ppm"

@@ -389,7 +389,9 @@ def part_sheet(row: pd.Series, brief: Brief) -> str:
     )
     source = str(row["caps_source"])
     if source == "internal":
-        caps_text = f"chip setting {row['internal_cap_code']}"
+        internal = brief.amplifier.internal_caps
+        where = "each pin" if internal is None or internal.applies_to == "each_pin" else "load"
+        caps_text = f"setting {row['internal_cap_code']} ({where})"
         caps_origin = "chosen (internal)"
     elif source == "fixed":
         caps_text = f"{fmt(row['cap_a_f'], 'capacitance')} + {fmt(row['cap_b_f'], 'capacitance')}"
