@@ -396,7 +396,8 @@ class PickerCore:
             ),
             Figure(
                 "margin ranked on",
-                f"{_ratio(row.get('form_margin'))} (needs ≥ {_ratio(row.get('form_margin_required'))})",
+                f"{_ratio(row.get('form_margin'))} "
+                f"(needs ≥ {_ratio(row.get('form_margin_required'))})",
                 "computed",
                 f"the {row.get('amplifier_form', '')} form's figure against its requirement",
             ),
