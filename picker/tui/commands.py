@@ -23,7 +23,7 @@ class PickerCommands(Provider):
             entries.append(
                 (
                     f"Preset: {preset.title}",
-                    f"{preset_label(preset)} — {preset.clause}",
+                    f"{preset_label(preset).removeprefix(preset.title + ' — ')} — {preset.clause}",
                     f"preset('{preset.name}')",
                 )
             )
