@@ -181,23 +181,60 @@ def pierce_coefficients(
     complex arrays and agrees with them to rounding.
     """
     w = as_float(omega)
+    cg_a, cd_a, c3_a = as_float(cg), as_float(cd), as_float(c3)
     g1_a, g2_a, g3_a = as_float(g1), as_float(g2), as_float(g3)
+    shape = np.broadcast_shapes(w.shape, cg_a.shape, cd_a.shape, c3_a.shape, g3_a.shape)
+    shape = np.broadcast_shapes(shape, g1_a.shape, g2_a.shape)
+
+    def table() -> FloatArray:
+        return np.empty(shape)
+
+    # Every array below has the full shape, so the sums can be formed in place: at a million
+    # rows a fresh temporary per operation costs about as much as the arithmetic. The
+    # operation order is that of the complex products written out, term by term.
     with np.errstate(invalid="ignore", over="ignore"):  # NaN inputs give NaN, silently
-        wcg = w * as_float(cg)  # Im Y1
-        wcd = w * as_float(cd)  # Im Y2
-        wc3 = w * as_float(c3)  # Im Y3
-        n0r = g1_a + g2_a
-        n0i = wcg + wcd
-        # d0 = Y1·Y2 + Y3·n0, each complex product written out (same operation order)
-        d0r = (g1_a * g2_a - wcg * wcd) + (g3_a * n0r - wc3 * n0i)
-        d0i = (g1_a * wcd + wcg * g2_a) + (g3_a * n0i + wc3 * n0r)
-        a1 = d0r + (n0r * g3_a + n0i * wc3)
-        a0 = n0r * d0r + n0i * d0i
-        q2 = g3_a * g3_a + wc3 * wc3
-        q1 = 2.0 * (g3_a * d0r + wc3 * d0i)
-        q0 = d0r * d0r + d0i * d0i
-    # views, not copies: a2 = G3 is often one number for the whole table
-    a2, a1, a0, q2, q1, q0 = np.broadcast_arrays(g3_a, a1, a0, q2, q1, q0)
+        wcg = np.multiply(w, cg_a, out=table())  # Im Y1
+        wcd = np.multiply(w, cd_a, out=table())  # Im Y2
+        wc3 = np.multiply(w, c3_a, out=table())  # Im Y3
+        n0r = g1_a + g2_a  # Re(Y1 + Y2), usually one number
+        n0i = np.add(wcg, wcd, out=table())  # Im(Y1 + Y2)
+        term = table()
+        # d0 = Y1·Y2 + Y3·n0
+        d0r = np.multiply(wcg, wcd, out=table())
+        np.subtract(g1_a * g2_a, d0r, out=d0r)
+        np.multiply(wc3, n0i, out=term)
+        np.subtract(g3_a * n0r, term, out=term)
+        d0r += term  # (g1·g2 − ωCg·ωCd) + (g3·n0r − ωC3·n0i)
+        d0i = np.multiply(g1_a, wcd, out=wcd)
+        np.multiply(wcg, g2_a, out=term)
+        d0i += term  # g1·ωCd + ωCg·g2
+        y3n0i = np.multiply(g3_a, n0i, out=wcg)
+        np.multiply(wc3, n0r, out=term)
+        y3n0i += term  # g3·n0i + ωC3·n0r
+        d0i += y3n0i
+        # a1 = d0r + (n0r·g3 + n0i·ωC3)
+        a1 = np.multiply(n0r, g3_a, out=y3n0i)
+        np.multiply(n0i, wc3, out=term)
+        a1 += term
+        np.add(d0r, a1, out=a1)
+        # a0 = n0r·d0r + n0i·d0i
+        a0 = np.multiply(n0r, d0r, out=table())
+        np.multiply(n0i, d0i, out=term)
+        a0 += term
+        # q2 = g3² + (ωC3)²
+        q2 = np.multiply(wc3, wc3, out=table())
+        np.add(g3_a * g3_a, q2, out=q2)
+        # q1 = 2·(g3·d0r + ωC3·d0i)
+        q1 = np.multiply(g3_a, d0r, out=table())
+        np.multiply(wc3, d0i, out=term)
+        q1 += term
+        q1 *= 2.0
+        # q0 = d0r² + d0i²
+        q0 = np.multiply(d0r, d0r, out=n0i)
+        np.multiply(d0i, d0i, out=term)
+        q0 += term
+    # a2 = G3, a view, not a copy: often one number for the whole table
+    a2 = np.broadcast_to(g3_a, shape)
     return PierceCoefficients(a2, a1, a0, q2, q1, q0)
 
 
@@ -432,9 +469,18 @@ def _select(pick: BoolArray, first: FloatArray, second: FloatArray) -> FloatArra
 def _usable_real_part(k: PierceCoefficients, gm: FloatArray) -> FloatArray:
     # Re(Zc) at a candidate root; +inf where the root is no real positive transconductance
     # (an infinite root makes the value NaN, so it needs no test of its own)
-    gm2 = gm * gm
-    value = (k.a2 * gm2 + k.a1 * gm + k.a0) / (k.q2 * gm2 + k.q1 * gm + k.q0)
-    return np.asarray(np.where((gm > 0.0) & np.isfinite(value), value, np.inf))
+    gm2 = np.asarray(gm * gm)  # 0-d arrays, not scalars, so that out= works for one part too
+    value = np.asarray(k.a2 * gm2)
+    term = np.asarray(k.a1 * gm)
+    value += term
+    value += k.a0  # a2·gm² + a1·gm + a0
+    denominator = np.multiply(k.q2, gm2, out=gm2)
+    np.multiply(k.q1, gm, out=term)
+    denominator += term
+    denominator += k.q0  # q2·gm² + q1·gm + q0
+    value /= denominator
+    np.copyto(value, np.inf, where=~((gm > 0.0) & np.isfinite(value)))
+    return value
 
 
 def negative_resistance_from(coefficients: PierceCoefficients, gm: ArrayLike) -> FloatArray:
