@@ -58,8 +58,14 @@ class LintReport:
 
     @property
     def exit_code(self) -> int:
-        """0 clean or warnings only, 1 error rows found, 2 unusable input."""
-        if self.fatal is not None or self.unusable:
+        """0 clean or warnings only, 1 error rows found, 2 unusable input.
+
+        An unusable input beside usable ones is a problem found (1): the usable files were
+        checked and the unusable one is reported among the problems. Only when nothing at
+        all could be read is the run unusable (2).
+        """
+        usable = [f for f in self.files if f.path not in self.unusable]
+        if self.fatal is not None or (self.unusable and not usable):
             return 2
         return 1 if self.errors else 0
 

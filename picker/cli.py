@@ -360,14 +360,20 @@ def _alternates(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
 
 
 def _lint(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:
-    from catalog.cache import load_catalogs_cached
+    from catalog.lint import lint_catalogs, render_lint_table
 
-    result = load_catalogs_cached([Path(p) for p in args.paths], mapping=_option(args, "map"))
+    # Lint reads the files afresh (no cache): it is the check of what is on disk now.
+    result = lint_catalogs([Path(p) for p in args.paths], mapping=_option(args, "map"))
+    if result.exit_code == 2:  # nothing could be read: one line per input, nothing on stdout
+        for problem in result.problems:
+            if problem.severity == "error":
+                print(f"picker: {problem.one_line()}", file=err)
+        return 2
     if args.format == "json":
-        out.write(report.to_json(report.lint_object(result)))
+        out.write(report.to_json(result.to_json_dict()))
     else:
-        out.write(report.lint_table(result))
-    return EXIT_FINDING if result.problems else EXIT_OK
+        out.write(render_lint_table(result))
+    return result.exit_code
 
 
 def _presets(args: argparse.Namespace, out: TextIO, err: TextIO) -> int:

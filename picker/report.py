@@ -604,39 +604,7 @@ def alternates_table(result: Any, rows: Sequence[Any]) -> str:
     return "\n".join(line.rstrip() for line in lines) + "\n"
 
 
-# --------------------------------------------------------------------------- lint, presets
-
-
-def lint_object(result: Any) -> dict[str, Any]:
-    """``lint --format json``: files, rows loaded and every problem."""
-    return {
-        "files": [
-            {"path": f.path, "rows_read": int(f.rows_read), "rows_loaded": int(f.rows_loaded)}
-            for f in result.files
-        ],
-        "rows_loaded": len(result.parts),
-        "problems": [
-            {
-                "path": p.path,
-                "line": p.line,
-                "field": p.field,
-                "raw": p.raw,
-                "message": p.message,
-                "severity": p.severity,
-            }
-            for p in result.problems
-        ],
-    }
-
-
-def lint_table(result: Any) -> str:
-    lines = [f"{f.path}: {f.rows_loaded} of {f.rows_read} rows loaded" for f in result.files]
-    errors = sum(1 for p in result.problems if p.severity == "error")
-    warnings = len(result.problems) - errors
-    lines.append(f"{errors} errors (rows not loaded), {warnings} warnings (rows loaded)")
-    for p in result.problems:
-        lines += wrap(f"{p.severity}: {p.one_line()}", indent="", hang="    ")
-    return "\n".join(lines) + "\n"
+# --------------------------------------------------------------------------- presets
 
 
 def presets_table(rows: Sequence[Mapping[str, str]]) -> str:

@@ -62,10 +62,12 @@ def test_unusable_input_exit_2(write: Write, tmp_path: Path, name: str) -> None:
     assert report.problems[0].severity == "error" and report.problems[0].line is None
 
 
-def test_one_unusable_among_good_files_is_still_exit_2(write: Write, tmp_path: Path) -> None:
+def test_one_unusable_among_good_files_is_a_problem_found(write: Write, tmp_path: Path) -> None:
+    # The good file was checked, so this is a finding (1), not an unusable run (2).
     report = lint_catalogs([write("a.csv", _csv(GOOD_ROW)), tmp_path / "absent.csv"])
     assert report.rows_loaded == 1
-    assert report.exit_code == 2
+    assert report.exit_code == 1
+    assert any(p.path.endswith("absent.csv") and p.severity == "error" for p in report.problems)
 
 
 def test_bad_mapping_file_exit_2(write: Write) -> None:
