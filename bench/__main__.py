@@ -167,7 +167,7 @@ def measure(sizes: Sequence[int], *, repeats: int, sample: int, quick: bool) -> 
                     loaded,
                     "cold_s",
                     limit=3.0 if size <= 100_000 else None,
-                    note=f"parse only {_s(loaded.get('parse_only_s'))}",
+                    note=f"again in-process, caches warm: {_s(loaded.get('parse_only_s'))}",
                 )
             )
             rows.append(
