@@ -272,6 +272,9 @@ def wrap(
 STATUS_MARK = {"fit": "fit", "marginal": "marginal", "ruled_out": "ruled out"}
 
 
+_MPN_WIDTH_MAX = 19  # the widest that keeps a row within 80 columns
+
+
 def ranking_table(ranking: Ranking, frame: pd.DataFrame, *, total_shown: str = "") -> str:
     """The shortlist as an 80-column text table with a margin bar and a budget bar per row.
 
@@ -285,9 +288,14 @@ def ranking_table(ranking: Ranking, frame: pd.DataFrame, *, total_shown: str = "
         f"{ranking.counts.get('fit', 0)} fit, {ranking.counts.get('marginal', 0)} marginal, "
         f"{ranking.counts.get('ruled_out', 0)} ruled out{total_shown}",
         "",
-        f"{'#':>3} {'part number':<14} {'pkg':<6}{'CL':>5}{'ESR':>5}"
-        f"{'margin':>7} {'':<8}{'error/budget':>11}{'':<8} status",
     ]
+    # The part number is what the reader copies into a BOM: size its column to the longest
+    # one shown (up to 19 characters) and give any longer one a line of its own.
+    mpn_width = min(max([11, *(len(str(m)) for m in frame["mpn"])]), _MPN_WIDTH_MAX)
+    lines.append(
+        f"{'#':>3} {'part number':<{mpn_width}} {'pkg':<6}{'CL':>5}{'ESR':>5}"
+        f"{'margin':>7} {'':<8}{'error':>6} {'':<8} status"
+    )
     for position, (_, row) in enumerate(frame.iterrows(), start=1):
         margin = _float(row["form_margin"])
         required = _float(row["form_margin_required"]) or 1.0
@@ -300,10 +308,14 @@ def ranking_table(ranking: Ranking, frame: pd.DataFrame, *, total_shown: str = "
         status = str(row["status"])
         cl = _float(row["spec_load_capacitance_f"])
         cl_text = "ser" if cl is None else f"{cl * 1e12:.3g}"
+        mpn = str(row["mpn"])
+        if len(mpn) > mpn_width:
+            lines.append(f"{position:>3} {mpn}")
         lines.append(
-            f"{position:>3} {_clip(str(row['mpn']), 14):<14} {_clip(str(row['package']), 6):<6}"
+            f"{position if len(mpn) <= mpn_width else '':>3} "
+            f"{_clip(mpn, mpn_width):<{mpn_width}} {_clip(str(row['package']), 6):<6}"
             f"{cl_text:>5}{ohms(row['esr_ohm']):>5}{num(margin, 2):>7} "
-            f"{bar(margin_fraction)}{num(total, 3):>5}/{num(budget, 3):<5}"
+            f"{bar(margin_fraction)}{num(total, 3):>6} "
             f"{bar(used)} {STATUS_MARK.get(status, status)}"
         )
         if status != "fit":
@@ -313,7 +325,8 @@ def ranking_table(ranking: Ranking, frame: pd.DataFrame, *, total_shown: str = "
     lines += [
         "",
         "margin: the figure ranked on; bar half full at the required minimum, full at 4x.",
-        "error/budget: worst-case total and budget in ppm; bar = share of budget used.",
+        f"error: worst-case total in ppm; bar = share of the ±{num(brief.budget_ppm)} ppm"
+        " budget used.",
         "CL: the part's specified load in pF (ser = series resonance); ESR in Ω.",
     ]
     return "\n".join(line.rstrip() for line in lines) + "\n"

@@ -131,3 +131,12 @@ def test_bar_is_text() -> None:
     assert report.bar(0.5) == "[###...]"
     assert report.bar(None) == "[??????]"
     assert report.bar(2.0) == "[######]"
+
+
+def test_ranking_table_shows_whole_part_numbers_within_80_columns() -> None:
+    # A BOM needs the whole part number: a long one gets a line of its own, never an ellipsis.
+    long_mpn = "XQ-3225-16.000MHZ-08PF-T&R-LONGSUFFIX"
+    ranked = rank_parts(table([part(long_mpn), part("SHORT-1")]), brief())
+    text = report.ranking_table(ranked, ranked.head(10, include_ruled_out=True))
+    assert long_mpn in text and "SHORT-1" in text
+    assert max(len(line) for line in text.splitlines()) <= 80
