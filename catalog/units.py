@@ -349,6 +349,8 @@ def _engineering(number: float, symbol: str, digits: int) -> str:
 
 def _expected(dimension: str, raw: str) -> str:
     shown = raw if len(raw) <= 60 else raw[:57] + "..."
+    # Line breaks and other control characters shown escaped: the message stays one line.
+    shown = "".join(char if char.isprintable() else repr(char)[1:-1] for char in shown)
     return f"expected {_EXAMPLES[dimension]}, got '{shown}'"
 
 
