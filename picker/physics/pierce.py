@@ -422,6 +422,37 @@ def pierce_optimum(coefficients: PierceCoefficients) -> PierceOptimum:
     8.27 mA/V, 399.7 ohm
     """
     k = coefficients
+    regular = _regular_lossless_rows(k)
+    if regular is None or not regular.any():
+        return _general_optimum(k)
+    # lossless rows (a2 = a0 = q1 = 0): Re(Zc) = a1·gm/(q2·gm² + q0) is least at
+    # gm = √(q0/q2), where it is a1/(2·√(q0·q2)); that is ω·K/C3 and −Cg·Cd/(2·ω·C3·K), the
+    # closed forms of Vittoz et al. (IEEE JSSC 1988), in a handful of operations
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        gm_opt = np.asarray(np.sqrt(k.q0 / k.q2))
+        rneg_max = np.asarray(-k.a1 / (2.0 * np.sqrt(k.q0 * k.q2)))
+    if not regular.all():
+        if regular.ndim == 0:  # pragma: no cover - a 0-d row is all or nothing
+            return _general_optimum(k)
+        rest = np.nonzero(~regular)
+        general = _general_optimum(PierceCoefficients(*(np.asarray(c)[rest] for c in k)))
+        gm_opt[rest] = general.gm_opt
+        rneg_max[rest] = general.rneg_max
+    return PierceOptimum(to_float(gm_opt), to_float(rneg_max))
+
+
+def _regular_lossless_rows(k: PierceCoefficients) -> BoolArray | None:
+    # rows of a lossless network (G1 = G2 = G3 = 0) with positive, finite capacitances and
+    # frequency; None at once when G3 is not zero anywhere (the lossy brief)
+    if not np.all(k.a2 == 0.0):
+        return None
+    regular = (k.a0 == 0.0) & (k.q1 == 0.0) & (k.a1 < 0.0)
+    regular &= (k.q2 > 0.0) & (k.q2 < np.inf) & (k.q0 > 0.0) & (k.q0 < np.inf)
+    return np.asarray(regular)
+
+
+def _general_optimum(k: PierceCoefficients) -> PierceOptimum:
+    # the stationary-point quadratic of pierce_optimum's Notes, any losses
     a = k.a2 * k.q1 - k.a1 * k.q2
     b = 2.0 * (k.a2 * k.q0 - k.a0 * k.q2)
     b += 0.0  # −0 becomes +0, so copysign below splits the roots exactly as b ≥ 0 does

@@ -290,3 +290,26 @@ def test_rss_unknown_when_a_term_is_missing_even_beside_an_infinite_one() -> Non
     got = budget.frequency_error_budget(np.nan, np.inf, 1.0, 1.0, 1.0)
     assert np.isnan(got.rss_ppm) and np.isnan(got.total_ppm)
     assert budget.frequency_error_budget(np.inf, 1.0, 1.0, 1.0, 1.0).rss_ppm == np.inf
+
+
+def test_lossless_optimum_edge_rows_take_the_general_path() -> None:
+    # Vittoz et al. 1988 limits: no capacitor at one node (Cg = 0) gives Re(Zc) = 0 for every
+    # gm (no optimum, |Rneg|max 0); nothing across the crystal (C3 = 0) has no ceiling
+    # (Re(Zc) = −gm/(ω²·Cg·Cd) falls without bound); a missing value stays missing; the
+    # regular rows beside them keep the closed forms
+    w = 2 * np.pi * np.array([16e6, 16e6, 16e6, 16e6, 8e6])
+    cg = np.array([18e-12, 0.0, 18e-12, np.nan, 12e-12])
+    cd = np.full(5, 18e-12)
+    c3 = np.array([7e-12, 7e-12, 0.0, 7e-12, 3e-12])
+    best = pierce.pierce_optimum(pierce.pierce_coefficients(w, cg, cd, c3))
+    k = cg * cd + c3 * (cg + cd)
+    for row in (0, 4):
+        assert best.gm_opt[row] == pytest.approx(w[row] * k[row] / c3[row], rel=1e-12)
+        assert best.rneg_max[row] == pytest.approx(
+            cg[row] * cd[row] / (2 * w[row] * c3[row] * k[row]), rel=1e-12
+        )
+    assert np.isnan(best.gm_opt[1]) and best.rneg_max[1] == 0.0
+    assert best.gm_opt[2] == np.inf and best.rneg_max[2] == np.inf
+    assert np.isnan(best.gm_opt[3]) and np.isnan(best.rneg_max[3])
+    one = pierce.pierce_optimum(pierce.pierce_coefficients(w[0], cg[0], cd[0], c3[0]))
+    assert np.ndim(one.gm_opt) == 0 and one.gm_opt == pytest.approx(best.gm_opt[0], rel=1e-15)
