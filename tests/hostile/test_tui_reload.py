@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import csv
 import io
+import os
 import random
 from pathlib import Path
 
@@ -146,3 +147,32 @@ async def test_export_from_the_app_refuses_the_catalog_and_neutralises_formulas(
     cells = [cell for row in rows for cell in row]
     assert "'=HYPERLINK(1)" in cells and "'@SUM(1)" in cells
     assert not any(cell.startswith(("=", "@", "+")) for cell in cells)
+
+
+async def test_opening_hostile_briefs_and_saving_onto_the_catalog(
+    files: tuple[Path, Path],
+) -> None:
+    catalog, brief = files
+    folder = catalog.parent
+    endless = folder / "endless.yaml"
+    endless.symlink_to("/dev/zero")
+    pipe = folder / "pipe.yaml"
+    os.mkfifo(pipe)
+    binary = folder / "binary.yaml"
+    binary.write_bytes(random.Random(5).randbytes(2000))  # seeded random generator
+    before = catalog.read_bytes()
+    app = PickerApp(PickerCore(), [catalog], brief)
+    with bounded(60):
+        async with app.run_test(size=(80, 24)) as pilot:
+            await settle(app, pilot)
+            for hostile in (endless, pipe, binary, folder, folder / "missing.yaml"):
+                app.open_brief(hostile)
+                await settle(app, pilot)
+                assert app.is_running
+                assert app.brief_path == brief  # the good brief stays in use
+                assert any(hostile.name in n.message for n in app._notifications), hostile
+            app._save_brief_to(str(catalog))  # what the save dialog does with that path
+            await settle(app, pilot)
+            assert any("refusing" in n.message for n in app._notifications)
+            assert catalog.read_bytes() == before
+            assert len(app.query_one(ShortlistView).mpns) == len(GOOD_ROWS)
