@@ -431,13 +431,20 @@ def pierce_optimum(coefficients: PierceCoefficients) -> PierceOptimum:
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
         gm_opt = np.asarray(np.sqrt(k.q0 / k.q2))
         rneg_max = np.asarray(-k.a1 / (2.0 * np.sqrt(k.q0 * k.q2)))
-    if not regular.all():
-        if regular.ndim == 0:  # pragma: no cover - a 0-d row is all or nothing
-            return _general_optimum(k)
-        rest = np.nonzero(~regular)
-        general = _general_optimum(PierceCoefficients(*(np.asarray(c)[rest] for c in k)))
-        gm_opt[rest] = general.gm_opt
-        rneg_max[rest] = general.rneg_max
+    if regular.all():
+        return PierceOptimum(to_float(gm_opt), to_float(rneg_max))
+    # every row keeps its own path (closed form where regular, general elsewhere), so a row's
+    # figures never depend on the rest of the table; only the cheaper way to get there varies
+    irregular = ~regular
+    if np.count_nonzero(irregular) * 4 > irregular.size:  # mostly irregular: no gathers
+        general = _general_optimum(k)
+        np.copyto(general.gm_opt, gm_opt, where=regular)
+        np.copyto(general.rneg_max, rneg_max, where=regular)
+        return general
+    rest = np.nonzero(irregular)
+    general = _general_optimum(PierceCoefficients(*(np.asarray(c)[rest] for c in k)))
+    gm_opt[rest] = general.gm_opt
+    rneg_max[rest] = general.rneg_max
     return PierceOptimum(to_float(gm_opt), to_float(rneg_max))
 
 

@@ -313,3 +313,19 @@ def test_lossless_optimum_edge_rows_take_the_general_path() -> None:
     assert np.isnan(best.gm_opt[3]) and np.isnan(best.rneg_max[3])
     one = pierce.pierce_optimum(pierce.pierce_coefficients(w[0], cg[0], cd[0], c3[0]))
     assert np.ndim(one.gm_opt) == 0 and one.gm_opt == pytest.approx(best.gm_opt[0], rel=1e-15)
+
+
+@pytest.mark.parametrize("missing_every", [2, 50])
+def test_lossless_optimum_of_a_row_does_not_depend_on_the_rest_of_the_table(
+    missing_every: int,
+) -> None:
+    # mostly missing or mostly complete tables take different routes; each row's figures
+    # must come out the same as when it is evaluated alone
+    v = _network(17, n=3_000, lossy=False)
+    v["cg"][::missing_every] = np.nan
+    args = (v["omega"], v["cg"], v["cd"], v["c3"])
+    together = pierce.pierce_optimum(pierce.pierce_coefficients(*args))
+    for i in range(0, 3_000, 41):
+        alone = pierce.pierce_optimum(pierce.pierce_coefficients(*(a[i] for a in args)))
+        np.testing.assert_array_equal(alone.gm_opt, together.gm_opt[i])
+        np.testing.assert_array_equal(alone.rneg_max, together.rneg_max[i])
