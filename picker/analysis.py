@@ -14,6 +14,7 @@ an estimate from data-sheet values.
 
 from __future__ import annotations
 
+from dataclasses import dataclass
 from typing import Any, Literal, cast
 
 import numpy as np
@@ -203,6 +204,64 @@ def _spread_rows(
 
 def _analyze_rows(parts: pd.DataFrame, brief: Brief) -> pd.DataFrame:
     """analyze_parts for every row given (see there)."""
+    stage = board_stage(parts, brief)
+    return analysis_frame(stage, amplifier_stage(stage, brief))
+
+
+def board_key(brief: Brief) -> tuple[object, ...]:
+    """The brief sections :func:`board_stage` reads (frozen, hashable): equal keys give
+    identical crystal and board figures, so a caller may keep that stage while they hold."""
+    amp = brief.amplifier
+    return (
+        brief.frequency_hz,
+        brief.board,
+        amp.pin_capacitance_f,
+        amp.swing_v,
+        amp.internal_caps,
+        brief.temp_min_c,
+        brief.temp_max_c,
+        brief.lifetime_s,
+        brief.budget_ppm,
+    )
+
+
+def amplifier_key(brief: Brief) -> tuple[object, ...]:
+    """The brief sections :func:`amplifier_stage` reads on top of :func:`board_key`."""
+    return (*board_key(brief), brief.amplifier, brief.limits.min_margin)
+
+
+@dataclass(frozen=True)
+class BoardStage:
+    """Crystal and board figures of some parts: everything that does not depend on the
+    amplifier's gain (the first two analysis stages; see :func:`board_stage`).
+
+    Attributes
+    ----------
+    index : the analysed rows' index.
+    head : analysis columns up to the trim sensitivity, in frame order.
+    tail : drive, error-budget and provenance columns, in frame order.
+    omega, r1, c0, cg, cd, c3, cl_spec, cl_board, l1 : arrays the amplifier stage needs
+        [rad/s, ohm, F, F, F, F, F, F, H].
+    """
+
+    index: pd.Index
+    head: dict[str, Any]
+    tail: dict[str, Any]
+    omega: np.ndarray
+    r1: np.ndarray
+    c0: np.ndarray
+    cg: np.ndarray
+    cd: np.ndarray
+    c3: np.ndarray
+    cl_spec: np.ndarray
+    cl_board: np.ndarray
+    l1: np.ndarray
+
+
+def board_stage(parts: pd.DataFrame, brief: Brief) -> BoardStage:
+    """Crystal-only figures (fs, fp, Q, L1, estimates) and board figures (caps, CL, pulling,
+    trim, drive level, error budget) for every row of ``parts``; depends on the brief only
+    through :func:`board_key`."""
     n = len(parts)
     amp, board = brief.amplifier, brief.board
     f_nom = _col(parts, "freq_hz")
@@ -255,19 +314,10 @@ def _analyze_rows(parts: pd.DataFrame, brief: Brief) -> pd.DataFrame:
         pulling = (f_board - f_nom) / f_nom * 1e6
         trim = crystal.trim_sensitivity_ppm_per_pf(c1, c0, cl_board)
 
-    omega = 2.0 * np.pi * f_nom
-    g2 = 0.0 if amp.output_resistance_ohm is None else 1.0 / amp.output_resistance_ohm
-    g3 = 0.0 if amp.bias_resistance_ohm is None else 1.0 / amp.bias_resistance_ohm
-    circuit = _amplifier_figures(brief, omega, r1, c0, cg, cd, c3, g2, g3, cl_spec, cl_board)
-
     drive_rating = _col(parts, "drive_level_w")
     drive_estimated = ~(drive_rating > 0)
     drive_rating = np.where(drive_estimated, typical["drive_rating_w"], drive_rating)
     drive_w = drive.drive_level(r1, f_nom, amp.swing_v, c0, cl_board)
-
-    with np.errstate(invalid="ignore", divide="ignore"):
-        rneg = circuit["negative_resistance_ohm"]
-        startup_s = startup.startup_time(l1, rneg, r1, ratio=STARTUP_AMPLITUDE_RATIO)
 
     aging_first_year = _col(parts, "aging_ppm")
     aging_estimated = np.isnan(aging_first_year)
@@ -276,8 +326,8 @@ def _analyze_rows(parts: pd.DataFrame, brief: Brief) -> pd.DataFrame:
         parts, brief, tuning_fork, aging_first_year, pulling, caps, c0, c1, cl_board
     )
 
-    columns: dict[str, Any] = {name: parts[name] for name in PASS_THROUGH if name in parts}
-    columns.update(
+    head: dict[str, Any] = {name: parts[name] for name in PASS_THROUGH if name in parts}
+    head.update(
         {
             "frequency_hz": f_nom,
             "fs_hz": fs,
@@ -300,20 +350,73 @@ def _analyze_rows(parts: pd.DataFrame, brief: Brief) -> pd.DataFrame:
             "c3_f": c3,
             "pulling_ppm": pulling,
             "trim_sensitivity_ppm_per_pf": trim,
-            **circuit,
-            "drive_level_w": drive_w,
-            "drive_rating_w": drive_rating,
-            "startup_time_s": startup_s,
-            **budget,
-            "c0_estimated": c0_estimated,
-            "c1_estimated": c1_estimated,
-            "cut_estimated": cut_estimated,
-            "drive_level_estimated": drive_estimated,
-            "aging_estimated": aging_estimated,
         }
     )
+    tail: dict[str, Any] = {
+        "drive_level_w": drive_w,
+        "drive_rating_w": drive_rating,
+        **budget,
+        "c0_estimated": c0_estimated,
+        "c1_estimated": c1_estimated,
+        "cut_estimated": cut_estimated,
+        "drive_level_estimated": drive_estimated,
+        "aging_estimated": aging_estimated,
+    }
+    return BoardStage(
+        index=parts.index,
+        head=head,
+        tail=tail,
+        omega=2.0 * np.pi * f_nom,
+        r1=r1,
+        c0=c0,
+        cg=cg,
+        cd=cd,
+        c3=c3,
+        cl_spec=cl_spec,
+        cl_board=cl_board,
+        l1=l1,
+    )
+
+
+def amplifier_stage(stage: BoardStage, brief: Brief) -> dict[str, Any]:
+    """The amplifier-dependent columns (negative resistance, margins, gm figures, start-up
+    time) for the rows of ``stage``; depends on the brief through :func:`amplifier_key`."""
+    amp = brief.amplifier
+    g2 = 0.0 if amp.output_resistance_ohm is None else 1.0 / amp.output_resistance_ohm
+    g3 = 0.0 if amp.bias_resistance_ohm is None else 1.0 / amp.bias_resistance_ohm
+    s = stage
+    circuit = _amplifier_figures(
+        brief, s.omega, s.r1, s.c0, s.cg, s.cd, s.c3, g2, g3, s.cl_spec, s.cl_board
+    )
+    with np.errstate(invalid="ignore", divide="ignore"):
+        rneg = circuit["negative_resistance_ohm"]
+        circuit["startup_time_s"] = startup.startup_time(
+            s.l1, rneg, s.r1, ratio=STARTUP_AMPLITUDE_RATIO
+        )
+    return circuit
+
+
+#: Where the amplifier stage's start-up column sits in the frame (after the drive figures).
+_AFTER_DRIVE = ("drive_level_w", "drive_rating_w")
+
+
+def analysis_columns(
+    head: dict[str, Any], amplifier: dict[str, Any], tail: dict[str, Any]
+) -> dict[str, Any]:
+    """The analysis frame's columns in contract order from the stages' column sets."""
+    circuit = {k: v for k, v in amplifier.items() if k != "startup_time_s"}
+    columns: dict[str, Any] = {**head, **circuit}
+    columns.update({name: tail[name] for name in _AFTER_DRIVE})
+    columns["startup_time_s"] = amplifier["startup_time_s"]
+    columns.update({k: v for k, v in tail.items() if k not in _AFTER_DRIVE})
+    return columns
+
+
+def analysis_frame(stage: BoardStage, amplifier: dict[str, Any]) -> pd.DataFrame:
+    """The analysis frame of the rows of ``stage`` (see :func:`analyze_parts`)."""
+    columns = analysis_columns(stage.head, amplifier, stage.tail)
     # copy=False: the columns are fresh arrays; consolidating them would copy every one.
-    return pd.DataFrame(columns, index=parts.index, copy=False)
+    return pd.DataFrame(columns, index=stage.index, copy=False)
 
 
 def _typical_values(parts: pd.DataFrame, f_nom: np.ndarray) -> dict[str, Any]:
@@ -477,9 +580,13 @@ def _amplifier_figures(
     form = amp.form
     nan = np.full(n, np.nan)
     required = np.full(n, float(limits.min_margin))
-    rneg_max = pierce.max_negative_resistance(omega, cg, cd, c3, 0.0, g2, g3)
-    gm_crit = pierce.critical_transconductance(omega, r1, cg, cd, c3, 0.0, g2, g3)
-    gm_opt = pierce.optimum_transconductance(omega, cg, cd, c3)
+    # One set of Re(Zc) coefficients serves |Rneg|max, gm_crit and gm_opt (all with the
+    # output and bias losses, so gm_opt is the optimum of the same network).
+    coefficients = pierce.pierce_coefficients(omega, cg, cd, c3, 0.0, g2, g3)
+    optimum = pierce.pierce_optimum(coefficients)
+    rneg_max = optimum.rneg_max
+    gm_crit = pierce.critical_transconductance_from(coefficients, r1)
+    gm_opt = optimum.gm_opt
     setting = pd.Categorical.from_codes(
         np.full(n, -1, dtype=np.int8), categories=pd.Index([], dtype=object)
     )
@@ -576,7 +683,7 @@ def _equivalent_gm(
     cg = np.full(omega.size, each)
     c3 = c0 + stray
     gm = pierce.critical_transconductance(omega, stated, cg, cg, c3, 0.0, g2, g3)
-    ceiling = pierce.optimum_transconductance(omega, cg, cg, c3)
+    ceiling = pierce.optimum_transconductance(omega, cg, cg, c3, 0.0, g2, g3)
     return np.where(np.isfinite(gm), gm, ceiling)
 
 
