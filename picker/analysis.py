@@ -169,37 +169,63 @@ def _spread_rows(
 ) -> pd.DataFrame:
     """The analysis of ``rows`` placed into a frame over all of ``parts`` (others: NaN,
     False, or missing; catalog columns and the budget carried for every row)."""
+    given = {name: computed[name] for name in computed.columns}
+    columns = spread_columns(given, parts, rows, brief, f_nom)
+    return pd.DataFrame(columns, index=parts.index, copy=False)
+
+
+#: Flag columns that hold True for parts whose circuit figures are not computed.
+_TRUE_WHEN_SKIPPED = frozenset({"caps_realisable"})
+
+
+def spread_columns(
+    computed: dict[str, Any],
+    parts: pd.DataFrame,
+    rows: np.ndarray,
+    brief: Brief,
+    f_nom: np.ndarray,
+) -> dict[str, Any]:
+    """Analysis columns of the rows ``rows`` of ``parts`` spread over all of ``parts``.
+
+    Rows not analysed get NaN, False (True for ``caps_realisable``) or a missing category;
+    catalog columns, the nominal frequency, the budget, C0/C1/L1 where the catalog gives
+    them and the spec load capacitance are carried for every row. Same column order.
+    """
     n = len(parts)
-    columns: dict[str, Any] = {name: parts[name] for name in PASS_THROUGH if name in parts}
-    defaults_true = {"caps_realisable"}
-    for name in computed.columns:
-        if name in columns:
+    out: dict[str, Any] = {}
+    for name, value in computed.items():
+        if name in PASS_THROUGH and name in parts:
+            out[name] = parts[name]
             continue
-        column = computed[name]
+        column = pd.Series(value, copy=False) if not isinstance(value, pd.Series) else value
         if isinstance(column.dtype, pd.CategoricalDtype):
             codes = np.full(n, -1, dtype=np.int64)
             codes[rows] = column.cat.codes.to_numpy()
-            columns[name] = pd.Categorical.from_codes(codes, categories=column.cat.categories)
+            out[name] = pd.Categorical.from_codes(codes, categories=column.cat.categories)
         elif column.dtype == bool:
-            flags = np.full(n, name in defaults_true, dtype=bool)
+            flags = np.full(n, name in _TRUE_WHEN_SKIPPED, dtype=bool)
             flags[rows] = column.to_numpy(dtype=bool)
-            columns[name] = flags
+            out[name] = flags
         else:
             values = np.full(n, np.nan)
             values[rows] = column.to_numpy(dtype=float, na_value=np.nan)
-            columns[name] = values
-    columns["frequency_hz"] = f_nom
-    columns["budget_ppm"] = np.full(n, float(brief.budget_ppm))
+            out[name] = values
+    if "frequency_hz" in out:
+        out["frequency_hz"] = f_nom
+    if "budget_ppm" in out:
+        out["budget_ppm"] = np.full(n, float(brief.budget_ppm))
     # Catalog figures stay visible for every part (NaN only where the catalog is silent).
-    for target, source in (("c0_f", "c0_f"), ("c1_f", "c1_f"), ("l1_h", "l1_h")):
-        given = _col(parts, source).copy()
-        given[rows] = computed[target].to_numpy(dtype=float)
-        columns[target] = given
-    spec = np.where(_series_flags(parts), np.nan, _col(parts, "load_capacitance_f"))
-    columns["spec_load_capacitance_f"] = spec
-    columns["amplifier_form"] = _constant(n, brief.amplifier.form)
-    ordered = {name: columns[name] for name in computed.columns}
-    return pd.DataFrame(ordered, index=parts.index, copy=False)
+    for name in ("c0_f", "c1_f", "l1_h"):
+        if name in out:
+            given = _col(parts, name).copy()
+            given[rows] = pd.Series(computed[name], copy=False).to_numpy(dtype=float)
+            out[name] = given
+    if "spec_load_capacitance_f" in out:
+        spec = np.where(_series_flags(parts), np.nan, _col(parts, "load_capacitance_f"))
+        out["spec_load_capacitance_f"] = spec
+    if "amplifier_form" in out:
+        out["amplifier_form"] = _constant(n, brief.amplifier.form)
+    return out
 
 
 def _analyze_rows(parts: pd.DataFrame, brief: Brief) -> pd.DataFrame:

@@ -25,7 +25,7 @@ from typing import Any
 import numpy as np
 import pandas as pd
 
-from picker.analysis import analyze_parts, frequency_matches
+from picker.analysis import frequency_matches
 from picker.brief import Brief
 
 STATUSES = ("fit", "marginal", "ruled_out")
@@ -124,20 +124,61 @@ class Ranking:
 
 
 def rank_parts(parts: pd.DataFrame, brief: Brief) -> Ranking:
-    """Analyse, judge and order every part of ``parts`` against ``brief``."""
-    return rank_analysis(analyze_parts(parts, brief), brief)
+    """Analyse, judge and order every part of ``parts`` against ``brief``.
+
+    Equal to ``rank_analysis(analyze_parts(parts, brief), brief)``, computed in stages
+    (:class:`picker.session.RankSession`); to re-rank the same table after a brief edit,
+    keep a session and call its ``rank`` instead, which reuses the unchanged stages.
+    """
+    from picker.session import RankSession  # the session builds on this module
+
+    return RankSession(parts).rank(brief)
 
 
 def rank_analysis(analysis: pd.DataFrame, brief: Brief) -> Ranking:
     """Judge and order an already computed analysis frame (see :func:`rank_parts`)."""
     fail = failure_mask(analysis, brief)
     near = np.where(fail != 0, 0, marginal_mask(analysis, brief))
-    status_code = np.where(fail != 0, 2, np.where(near != 0, 1, 0)).astype(np.int8)
+    status_code = status_codes(fail, near)
     components = score_components(analysis, brief)
+    score = weighted_score(components, brief)
+    table = ranked_frame(analysis, status_code, score, fail, near, components)
+    # Ruled-out parts: those failing fewer rules first (closest to usable), then by score.
+    failures = _popcount(fail)
+    order = order_rows(status_code, score - failures, analysis["mpn"], names_below_status=2)
+    return Ranking(analysis=table, order=order, brief=brief, counts=status_counts(status_code))
+
+
+def status_codes(fail: np.ndarray, near: np.ndarray) -> np.ndarray:
+    """Index into STATUSES per row: ruled out on any failed rule, marginal when near a limit."""
+    return np.where(fail != 0, 2, np.where(near != 0, 1, 0)).astype(np.int8)
+
+
+def status_counts(status_code: np.ndarray) -> dict[str, int]:
+    """How many rows hold each status."""
+    found = np.bincount(status_code.astype(np.int64), minlength=len(STATUSES))
+    return {name: int(found[i]) for i, name in enumerate(STATUSES)}
+
+
+def weighted_score(components: dict[str, np.ndarray], brief: Brief) -> np.ndarray:
+    """The brief-weighted mean of the score components (rounded to 12 decimals, so equal
+    parts tie exactly)."""
     weights = {name: float(getattr(brief.weights, name)) for name in SCORE_COMPONENTS}
     total_weight = sum(weights.values()) or 1.0
     score = sum(weights[name] * components[name] for name in SCORE_COMPONENTS) / total_weight
-    score = np.round(score, 12)
+    return np.round(score, 12)
+
+
+def ranked_frame(
+    analysis: pd.DataFrame | dict[str, Any],
+    status_code: np.ndarray,
+    score: np.ndarray,
+    fail: np.ndarray,
+    near: np.ndarray,
+    components: dict[str, np.ndarray],
+    index: pd.Index | None = None,
+) -> pd.DataFrame:
+    """The analysis columns plus status, score, masks and score components, one frame."""
     columns: dict[str, Any] = {
         "status": pd.Categorical.from_codes(status_code, categories=pd.Index(list(STATUSES))),
         "score": score,
@@ -146,16 +187,14 @@ def rank_analysis(analysis: pd.DataFrame, brief: Brief) -> Ranking:
     }
     for name in SCORE_COMPONENTS:
         columns[f"score_{name}"] = components[name]
-    extra = pd.DataFrame(columns, index=analysis.index, copy=False)
+    if isinstance(analysis, pd.DataFrame):
+        index = analysis.index
+        merged = {name: analysis[name] for name in analysis.columns}
+    else:
+        merged = dict(analysis)
     # One frame without consolidating blocks (a copy of every column at a million rows).
-    merged = {name: analysis[name] for name in analysis.columns}
-    merged.update({name: extra[name] for name in extra.columns})
-    table = pd.DataFrame(merged, index=analysis.index, copy=False)
-    # Ruled-out parts: those failing fewer rules first (closest to usable), then by score.
-    failures = _popcount(fail)
-    order = order_rows(status_code, score - failures, analysis["mpn"], names_below_status=2)
-    counts = {name: int(np.count_nonzero(status_code == i)) for i, name in enumerate(STATUSES)}
-    return Ranking(analysis=table, order=order, brief=brief, counts=counts)
+    merged.update(columns)
+    return pd.DataFrame(merged, index=index, copy=False)
 
 
 def _popcount(mask: np.ndarray) -> np.ndarray:
@@ -232,8 +271,24 @@ def _per_value(
     return values[np.where(codes < 0, len(labels) - 1, codes)]
 
 
+#: Rules judged on the circuit figures (not computed for parts at another frequency).
+CIRCUIT_RULES: tuple[str, ...] = ("never_starts", "caps", "margin", "drive", "budget")
+_CIRCUIT_BITS = sum(RULE_BIT[r] for r in CIRCUIT_RULES)
+
+
 def failure_mask(table: pd.DataFrame, brief: Brief) -> np.ndarray:
     """Bitmask (int64) of failed hard rules per row; NaN in a figure counts as failing it."""
+    wrong_frequency = ~frequency_matches(_arr(table, "frequency_hz"), brief)
+    mask = catalog_failure_mask(table, brief) | circuit_failure_mask(table, brief)
+    # At another frequency the circuit figures are not computed (NaN): only the frequency
+    # and the catalog-level rules (range, package, lifecycle, ...) are reasons then.
+    return np.where(wrong_frequency, mask & ~_CIRCUIT_BITS, mask)
+
+
+def catalog_failure_mask(table: pd.DataFrame, brief: Brief) -> np.ndarray:
+    """Bits of the rules judged on catalog columns alone (frequency, temperature range,
+    package, lifecycle, height, qualification, stock); ``table`` needs ``frequency_hz`` and
+    the catalog columns."""
     n = len(table)
     mask = np.zeros(n, dtype=np.int64)
     limits = brief.limits
@@ -241,22 +296,12 @@ def failure_mask(table: pd.DataFrame, brief: Brief) -> np.ndarray:
     def fail(rule: str, condition: np.ndarray) -> None:
         np.bitwise_or(mask, np.where(condition, RULE_BIT[rule], 0), out=mask)
 
-    freq = _arr(table, "frequency_hz")
-    wrong_frequency = ~frequency_matches(freq, brief)
-    fail("frequency", wrong_frequency)
-    fail("never_starts", table["can_never_start"].to_numpy(dtype=bool))
+    fail("frequency", ~frequency_matches(_arr(table, "frequency_hz"), brief))
     t_min, t_max = _arr(table, "temp_min_c"), _arr(table, "temp_max_c")
     fail("temperature_range", ~((t_min <= brief.temp_min_c) & (t_max >= brief.temp_max_c)))
     if limits.packages:
         allowed = {str(p).upper().replace(" ", "") for p in limits.packages}
         fail("package", ~_per_value(table, "package", lambda p: p in allowed, bool))
-    fail("caps", ~table["caps_realisable"].to_numpy(dtype=bool))
-    margin, required = _arr(table, "form_margin"), _arr(table, "form_margin_required")
-    outside = table["outside_esr_table"].to_numpy(dtype=bool)
-    fail("margin", ~(margin >= required) & ~outside)
-    level, rating = _arr(table, "drive_level_w"), _arr(table, "drive_rating_w")
-    fail("drive", level > rating)
-    fail("budget", ~(_arr(table, "budget_headroom_ppm") >= 0.0))
     lifecycles = _allowed_lifecycles(brief)
     if lifecycles is not None:
         fail("lifecycle", ~_per_value(table, "lifecycle", lambda v: v in lifecycles, bool))
@@ -271,10 +316,25 @@ def failure_mask(table: pd.DataFrame, brief: Brief) -> np.ndarray:
     min_stock = _optional(limits, "min_stock")
     if min_stock is not None:
         fail("stock", ~(_arr(table, "stock") >= min_stock))
-    # At another frequency the circuit figures are not computed (NaN): only the frequency
-    # and the catalog-level rules (range, package, lifecycle, ...) are reasons then.
-    circuit = sum(RULE_BIT[r] for r in ("never_starts", "caps", "margin", "drive", "budget"))
-    return np.where(wrong_frequency, mask & ~circuit, mask)
+    return mask
+
+
+def circuit_failure_mask(table: pd.DataFrame, brief: Brief) -> np.ndarray:
+    """Bits of the rules judged on the circuit figures (:data:`CIRCUIT_RULES`)."""
+    mask = np.zeros(len(table), dtype=np.int64)
+
+    def fail(rule: str, condition: np.ndarray) -> None:
+        np.bitwise_or(mask, np.where(condition, RULE_BIT[rule], 0), out=mask)
+
+    fail("never_starts", table["can_never_start"].to_numpy(dtype=bool))
+    fail("caps", ~table["caps_realisable"].to_numpy(dtype=bool))
+    margin, required = _arr(table, "form_margin"), _arr(table, "form_margin_required")
+    outside = table["outside_esr_table"].to_numpy(dtype=bool)
+    fail("margin", ~(margin >= required) & ~outside)
+    level, rating = _arr(table, "drive_level_w"), _arr(table, "drive_rating_w")
+    fail("drive", level > rating)
+    fail("budget", ~(_arr(table, "budget_headroom_ppm") >= 0.0))
+    return mask
 
 
 def marginal_mask(table: pd.DataFrame, brief: Brief) -> np.ndarray:
@@ -306,36 +366,55 @@ def _allowed_lifecycles(brief: Brief) -> set[str] | None:
 # --------------------------------------------------------------------------- score
 
 
-def score_components(table: pd.DataFrame, brief: Brief) -> dict[str, np.ndarray]:
+def score_components(
+    table: pd.DataFrame, brief: Brief, *, cheapest_price: float | None = None
+) -> dict[str, np.ndarray]:
     """Each score component in 0..1 (higher is better); monotone in the part's figures.
 
     margin: log(margin / required) / log(FULL_MARGIN_MULTIPLE), clipped — four times the
     required margin earns the full score. headroom: budget headroom / budget. drive: 1 − drive
     level / rating. price: cheapest listed price / price (unknown price 0.5). stock:
     log10(1 + stock) / log10(1 + FULL_STOCK) (unknown 0). lifecycle: active 1, NRND 0.3,
-    obsolete 0, unknown 0.5.
+    obsolete 0, unknown 0.5. ``cheapest_price``: the cheapest price of the whole table when
+    ``table`` holds only some of its rows (default: the cheapest in ``table``).
     """
+    return {
+        **circuit_score_components(table),
+        **catalog_score_components(table, cheapest_price=cheapest_price),
+    }
+
+
+def circuit_score_components(table: pd.DataFrame) -> dict[str, np.ndarray]:
+    """The margin, headroom and drive components (see :func:`score_components`)."""
     with np.errstate(divide="ignore", invalid="ignore"):
         margin, required = _arr(table, "form_margin"), _arr(table, "form_margin_required")
         margin_score = np.log(margin / required) / np.log(FULL_MARGIN_MULTIPLE)
         headroom = _arr(table, "budget_headroom_ppm") / _arr(table, "budget_ppm")
         drive = 1.0 - _arr(table, "drive_level_w") / _arr(table, "drive_rating_w")
+    raw = {"margin": margin_score, "headroom": headroom, "drive": drive}
+    return {name: np.clip(np.nan_to_num(v, nan=0.0), 0.0, 1.0) for name, v in raw.items()}
+
+
+def cheapest(table: pd.DataFrame) -> float:
+    """The lowest positive finite price in ``table`` (NaN when none)."""
+    price = _arr(table, "price")
+    finite_price = price[np.isfinite(price) & (price > 0)]
+    return float(finite_price.min()) if finite_price.size else math.nan
+
+
+def catalog_score_components(
+    table: pd.DataFrame, *, cheapest_price: float | None = None
+) -> dict[str, np.ndarray]:
+    """The price, stock and lifecycle components (see :func:`score_components`)."""
+    with np.errstate(divide="ignore", invalid="ignore"):
         price = _arr(table, "price")
-        finite_price = price[np.isfinite(price) & (price > 0)]
-        cheapest = finite_price.min() if finite_price.size else np.nan
-        price_score = np.where(np.isfinite(price) & (price > 0), cheapest / price, 0.5)
+        low = cheapest(table) if cheapest_price is None else cheapest_price
+        price_score = np.where(np.isfinite(price) & (price > 0), low / price, 0.5)
         stock = np.log10(1.0 + np.maximum(_arr(table, "stock"), 0.0)) / np.log10(1.0 + FULL_STOCK)
     lifecycle_score = _per_value(
         table, "lifecycle", lambda v: LIFECYCLE_SCORE.get(v, UNKNOWN_LIFECYCLE_SCORE), float
     )
-    raw = {
-        "margin": margin_score,
-        "headroom": headroom,
-        "drive": drive,
-        "price": price_score,
-        "stock": stock,
-        "lifecycle": lifecycle_score,
-    }
+    raw = {"price": price_score, "stock": stock, "lifecycle": lifecycle_score}
     return {name: np.clip(np.nan_to_num(v, nan=0.0), 0.0, 1.0) for name, v in raw.items()}
 
 
