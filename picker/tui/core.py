@@ -10,7 +10,6 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping, Sequence
-from importlib import resources
 from pathlib import Path
 from typing import Any
 
@@ -93,16 +92,6 @@ def bundled_briefs() -> tuple[Path, ...]:
         return tuple(Path(p) for p in demo_brief_paths())
     except (ImportError, OSError):
         return ()
-
-
-def bundled_catalogs() -> tuple[Path, ...]:
-    """The demo catalog files shipped with the program."""
-    root = resources.files("demo_catalog")
-    found = []
-    for entry in root.iterdir():
-        if entry.name.endswith((".csv", ".yaml", ".yml")):
-            found.append(Path(str(entry)))
-    return tuple(sorted(found))
 
 
 def _quantity(value: object, dimension: str, digits: int = 2) -> str:
