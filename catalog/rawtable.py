@@ -35,7 +35,9 @@ class Limits:
     Attributes
     ----------
     max_file_bytes : int
-        Largest catalog file read [bytes] (50 MB holds about a million parts).
+        Largest catalog file read [bytes]. 512 MiB holds ``max_rows`` parts of a wide
+        export (the demo writes about 135 bytes a part, so a million parts are 135 MB);
+        what it bounds is the reader's memory (the file, then its decoded text).
     max_field_chars : int
         Largest single cell [characters]; a longer cell is reported and blanked.
     max_rows : int
@@ -48,7 +50,7 @@ class Limits:
         Most YAML nodes after alias expansion.
     """
 
-    max_file_bytes: int = 50 * 1024 * 1024
+    max_file_bytes: int = 512 * 1024 * 1024
     max_field_chars: int = 65536
     max_rows: int = 2_000_000
     max_yaml_aliases: int = 1000

@@ -13,11 +13,17 @@ from __future__ import annotations
 import math
 import numbers
 import re
+from collections.abc import Sequence
 from functools import lru_cache
-from typing import Final, Literal, get_args
+from typing import TYPE_CHECKING, Any, Final, Literal, get_args
 
 import numpy as np
-import pint
+
+if TYPE_CHECKING:
+    import pint
+
+    #: The program's one pint registry, built on first access (see ``__getattr__``).
+    ureg: pint.UnitRegistry
 
 __all__ = [
     "DIMENSIONS",
@@ -26,6 +32,7 @@ __all__ = [
     "canonical_unit",
     "format_quantity",
     "is_bare_number",
+    "parse_plain_numbers",
     "parse_quantity",
     "parse_temperature_range",
     "ureg",
@@ -55,9 +62,25 @@ Dimension = Literal[
 ]
 DIMENSIONS: Final[tuple[str, ...]] = get_args(Dimension)
 
-# The one registry (pint's own advice: one per program). Created once at import; nothing
-# else in this module keeps state apart from the parse cache.
-ureg: Final[pint.UnitRegistry] = pint.UnitRegistry(cache_folder=None)
+
+@lru_cache(maxsize=1)
+def _registry() -> pint.UnitRegistry:
+    """The one pint registry (pint's own advice: one per program), built on first use.
+
+    Importing pint and building its registry costs 0.5-2 s; the common unit spellings
+    convert through ``_FAST_FACTORS`` without it, so most runs never pay that.
+    """
+    import pint
+
+    return pint.UnitRegistry(cache_folder=None)
+
+
+def __getattr__(name: str) -> Any:
+    # ``catalog.units.ureg`` stays available (PEP 562) without importing pint up front.
+    if name == "ureg":
+        return _registry()
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+
 
 # Canonical unit (pint spelling) of each physical dimension handled through pint.
 _PINT_CANONICAL: Final[dict[str, str]] = {
@@ -264,6 +287,37 @@ def is_bare_number(text: str) -> bool:
     return match is not None and not match.group(2).strip()
 
 
+def parse_plain_numbers(
+    texts: Sequence[str], dimension: Dimension, *, default_unit: str | None = None
+) -> tuple[np.ndarray, np.ndarray]:
+    """Read the cells that are plain decimal numbers ("12", "-0.5", "1e-3") in one pass.
+
+    Returns ``(values, handled)``: ``values[i]`` is exactly what
+    ``parse_quantity(texts[i], dimension, default_unit=default_unit)`` returns wherever
+    ``handled[i]`` is True, NaN elsewhere. Cells with anything else in them (units,
+    decorations, commas, blanks), values that would be refused, and columns whose unit
+    needs pint are left unhandled for ``parse_quantity``. Never raises for bad text.
+    """
+    count = len(texts)
+    values = np.full(count, np.nan, dtype=np.float64)
+    handled = np.zeros(count, dtype=bool)
+    factor = _plain_factor(dimension, default_unit) if dimension in DIMENSIONS else None
+    if factor is None:
+        return values, handled
+    match = _PLAIN_NUMBER.fullmatch
+    for index, text in enumerate(texts):
+        if not isinstance(text, str) or len(text) > _MAX_TEXT or match(text) is None:
+            continue
+        value = float(text) * factor
+        if not math.isfinite(value):
+            continue
+        rounded = float(f"{value:.15g}")  # the same rounding as ``_finite``
+        if math.isfinite(rounded):
+            values[index] = rounded
+            handled[index] = True
+    return values, handled
+
+
 def parse_temperature_range(text: str) -> tuple[float, float]:
     """Parse a rated temperature range into ``(min, max)`` in degC.
 
@@ -431,6 +485,50 @@ def _parse_uncached(text: str, dimension: str, default_unit: str | None) -> floa
     return _finite(value, dimension, text)
 
 
+# A cell that is nothing but a decimal number: every cleaning step of ``_parse_uncached``
+# leaves it as it is, so its value is float(text) times the column's unit factor.
+_PLAIN_NUMBER: Final[re.Pattern[str]] = re.compile(
+    r"[+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?", re.ASCII
+)
+
+
+@lru_cache(maxsize=256)
+def _plain_factor(dimension: str, default_unit: str | None) -> float | None:
+    """The factor ``f`` with ``parse(n) == n * f`` for a plain number ``n``; None if not so.
+
+    Mirrors ``_convert`` branch by branch for the unit a bare number gets (the header's
+    ``default_unit`` or none); None where that path would need pint or refuse the unit.
+    """
+    try:
+        unit = _strip_decorations(default_unit) if default_unit else ""
+        key = unit.lower().replace(" ", "")
+        if dimension == "temperature":
+            name = _TEMPERATURE_UNITS.get(unit.lower().strip()) or _TEMPERATURE_UNITS.get(key)
+            return _FAST_FACTORS.get((name, "degC")) if name else None
+        if dimension == "ppm":
+            return _PPM_FACTORS.get(_PER_YEAR.sub("", key))
+        if dimension == "fraction":
+            return _FRACTION_FACTORS.get(key)
+        if dimension == "ppm_per_c2":
+            compact = key.replace("°", "").replace("deg", "").replace("**", "^")
+            allowed = ("", "ppm/c^2", "ppm/c2", "ppm/k^2", "ppm/k2", "ppm/(c^2)", "ppm/c/c")
+            return 1.0 if compact in allowed else None
+        if dimension == "money":
+            return 1.0 if key in _CURRENCY_NAMES else None
+        if dimension == "count":
+            return 1.0 if key in ("", "pcs", "pc", "pieces", "units", "ea") else None
+        canonical = _PINT_CANONICAL[dimension]
+        if not unit:
+            return 1.0
+        if unit in _PREFIXES and dimension in _PREFIX_BASE:
+            # (n * prefix) * 1.0 in ``_convert_physical``: the base unit's factor is 1.0.
+            base = _FAST_FACTORS.get((_PREFIX_BASE[dimension], canonical))
+            return _PREFIXES[unit] if base == 1.0 else None
+        return _FAST_FACTORS.get((_spell_for_pint(unit, dimension), canonical))
+    except Exception:  # hostile header text: leave the column to the careful path
+        return None
+
+
 def _finite(value: float, dimension: str, raw: str) -> float:
     # Unit scaling leaves binary noise (100 uW -> 9.999999999999999e-05); 15 significant
     # digits is below any catalog's precision and gives the value the user wrote.
@@ -448,8 +546,11 @@ def _convert(number: float, unit: str, dimension: str, raw: str) -> float:
         name = _TEMPERATURE_UNITS.get(unit.lower().strip()) or _TEMPERATURE_UNITS.get(key)
         if name is None:
             raise UnitError(_expected(dimension, raw))
+        factor = _FAST_FACTORS.get((name, "degC"))
+        if factor is not None:
+            return float(number * factor)  # degC -> degC: pint leaves the magnitude as is
         # Offset units: build the quantity directly (multiplying would be ambiguous).
-        return float(ureg.Quantity(number, name).to("degC").magnitude)
+        return float(_registry().Quantity(number, name).to("degC").magnitude)
     if dimension == "ppm":
         key = _PER_YEAR.sub("", key)
         if key not in _PPM_FACTORS:
@@ -561,9 +662,70 @@ def _spell_for_pint(unit: str, dimension: str) -> str:
     return compact
 
 
+# Conversion factors of the common spellings (as ``_spell_for_pint`` returns them) to each
+# canonical unit: the very factors pint uses (pint converts a multiplicative unit as
+# ``value * factor``), so ``number * factor`` is bit-identical to pint's result. Checked
+# entry by entry against pint and over generated values in tests/catalog/test_units_fast.py.
+# Any other spelling goes through pint.
+_FAST_FACTORS: Final[dict[tuple[str, str], float]] = {
+    ("Hz", "hertz"): 1.0,
+    ("kHz", "hertz"): 1e3,
+    ("MHz", "hertz"): 1e6,
+    ("GHz", "hertz"): 1e9,
+    ("F", "farad"): 1.0,
+    ("fF", "farad"): 1e-15,
+    ("pF", "farad"): 1e-12,
+    ("nF", "farad"): 1e-9,
+    ("uF", "farad"): 1e-6,
+    ("ohm", "ohm"): 1.0,
+    ("kohm", "ohm"): 1e3,
+    ("Mohm", "ohm"): 1e6,
+    ("mohm", "ohm"): 1e-3,
+    ("W", "watt"): 1.0,
+    ("nW", "watt"): 1e-9,
+    ("uW", "watt"): 1e-6,
+    ("mW", "watt"): 1e-3,
+    ("s", "second"): 1.0,
+    ("ms", "second"): 1e-3,
+    ("us", "second"): 1e-6,
+    ("year", "second"): 31557600.0,  # pint's year: 365.25 days
+    ("month", "second"): 2629800.0,  # a twelfth of that year
+    ("day", "second"): 86400.0,
+    ("hour", "second"): 3600.0,
+    ("minute", "second"): 60.0,
+    ("S", "siemens"): 1.0,
+    ("mS", "siemens"): 1e-3,
+    ("uS", "siemens"): 1e-6,
+    ("A/V", "siemens"): 1.0,
+    ("mA/V", "siemens"): 1e-3,
+    ("uA/V", "siemens"): 1e-6,
+    ("V", "volt"): 1.0,
+    ("mV", "volt"): 1e-3,
+    ("uV", "volt"): 1e-6,
+    ("H", "henry"): 1.0,
+    ("mH", "henry"): 1e-3,
+    ("uH", "henry"): 1e-6,
+    ("nH", "henry"): 1e-9,
+    ("mm", "millimeter"): 1.0,
+    ("um", "millimeter"): 1e-3,
+    ("cm", "millimeter"): 10.0,
+    ("m", "millimeter"): 1e3,
+    ("thou", "millimeter"): 0.0254,
+    ("inch", "millimeter"): 25.4,
+    ("degC", "degC"): 1.0,
+}
+
+
 def _to_canonical(number: float, unit: str, canonical: str, raw: str, dimension: str) -> float:
+    factor = _FAST_FACTORS.get((unit, canonical))
+    if factor is not None:
+        return float(number * factor)
+    return _to_canonical_pint(number, unit, canonical, raw, dimension)
+
+
+def _to_canonical_pint(number: float, unit: str, canonical: str, raw: str, dimension: str) -> float:
     try:
-        quantity = ureg.Quantity(number, unit).to(canonical)
+        quantity = _registry().Quantity(number, unit).to(canonical)
     except Exception as error:  # undefined unit, wrong dimension, syntax: all "not this"
         raise UnitError(_expected(dimension, raw)) from error
     return float(quantity.magnitude)

@@ -34,7 +34,13 @@ from catalog.schema import (
     FieldSpec,
     normalise_header,
 )
-from catalog.units import UnitError, is_bare_number, parse_quantity, parse_temperature_range
+from catalog.units import (
+    UnitError,
+    is_bare_number,
+    parse_plain_numbers,
+    parse_quantity,
+    parse_temperature_range,
+)
 
 __all__ = [
     "FLOAT_COLUMNS",
@@ -347,50 +353,138 @@ def _outcome_parser(spec: FieldSpec, unit: str | None) -> Callable[[str], _Outco
 
 @dataclass(frozen=True)
 class _Column:
-    """One parsed column: per-row values, second values, and per-row problem texts."""
+    """One parsed column, kept per distinct text: ``codes[i]`` is row i's distinct text.
 
-    values: np.ndarray
-    extra: np.ndarray
-    missing: np.ndarray
-    message: np.ndarray  # object array: None or the message
-    severity: np.ndarray  # object array: None, "error" or "warning"
-    raw: np.ndarray
+    Per-row arrays are built only where needed (``rows``), so a million-row column does
+    not hold six object arrays of a million entries each.
+    """
+
+    codes: np.ndarray
+    raw_u: np.ndarray  # object: the distinct texts
+    values_u: np.ndarray  # object: what each became
+    extra_u: np.ndarray  # object: second value (range high end, series flag)
+    missing_u: np.ndarray  # bool
+    message_u: np.ndarray  # object: None or the message
+    error_u: np.ndarray  # bool: the message is an error (row dropped)
+    warning_u: np.ndarray  # bool: the message is a warning
+
+    def rows(self, per_distinct: np.ndarray) -> np.ndarray:
+        """Spread a per-distinct array over the rows."""
+        return per_distinct[self.codes]
+
+    @property
+    def missing(self) -> np.ndarray:
+        return self.rows(self.missing_u)
+
+    @property
+    def error(self) -> np.ndarray:
+        return self.rows(self.error_u)
+
+    def floats(self, values_u: np.ndarray, unusable_u: np.ndarray) -> np.ndarray:
+        """Per-row floats of ``values_u``; NaN where ``unusable_u``."""
+        out = np.full(len(values_u), np.nan, dtype=np.float64)
+        if len(values_u) and not unusable_u.all():
+            out[~unusable_u] = values_u[~unusable_u].astype(np.float64)
+        return self.rows(out)
 
 
-def _parse_column(cells: Column, parse: Callable[[str], _Outcome]) -> _Column:
-    """Parse each distinct text once and spread the results back over the rows."""
+#: Batch reader of the distinct texts a column parser can take in one pass:
+#: ``(values, extra, handled)``; unhandled texts go through the per-text parser.
+_Batch = Callable[[list[str]], tuple[np.ndarray, object, np.ndarray]]
+
+
+def _plain_number_batch(spec: FieldSpec, unit: str | None) -> _Batch | None:
+    """Plain numbers of a quantity column read in one pass (``parse_plain_numbers``).
+
+    Gives what ``_quantity_outcome`` gives for them: a value with no message. Values the
+    per-text parser would refuse or annotate (negative, zero, no unit where one is
+    needed) are left to it, so every message still comes from one place.
+    """
+    if spec.kind not in ("quantity", "load") or spec.dimension is None:
+        return None
+    if spec.needs_unit and unit is None:
+        return None  # a bare number is an error here: the per-text parser says why
+    dimension = spec.dimension
+    symmetric = dimension == "ppm" and spec.name in ("tolerance", "stability", "aging")
+    extra = False if spec.kind == "load" else None
+
+    def batch(texts: list[str]) -> tuple[np.ndarray, object, np.ndarray]:
+        values, handled = parse_plain_numbers(texts, dimension, default_unit=unit)
+        if symmetric:
+            values = np.abs(values)
+        if not spec.allow_negative:
+            handled &= ~(values < 0)
+        if not spec.allow_zero:
+            handled &= values != 0
+        return values, extra, handled
+
+    return batch
+
+
+def _text_batch(spec: FieldSpec) -> _Batch | None:
+    """Part numbers that need no cleaning (printable ASCII, single inner spaces) as they are."""
+    if spec.kind != "text" or spec.name != "mpn":
+        return None
+
+    def batch(texts: list[str]) -> tuple[np.ndarray, object, np.ndarray]:
+        # For such a text, " ".join(text.strip().split()) is the text itself.
+        handled = np.array(
+            [
+                text.isascii()
+                and text.isprintable()
+                and "  " not in text
+                and text[:1] != " "
+                and text[-1:] != " "
+                for text in texts
+            ],
+            dtype=bool,
+        )
+        return np.asarray(texts, dtype=object), None, handled
+
+    return batch
+
+
+def _parse_column(
+    cells: Column, parse: Callable[[str], _Outcome], batch: _Batch | None = None
+) -> _Column:
+    """Parse each distinct text once (in one pass where ``batch`` can) and keep the codes."""
     codes, uniques = factorize_cells(cells)
+    count = len(uniques)
     missing_u = np.array([_is_missing(text) for text in uniques], dtype=bool)
-    outcomes = [
-        _NO_VALUE if missing else parse(text)
-        for text, missing in zip(uniques, missing_u.tolist(), strict=True)
-    ]
-    values_u = np.empty(len(outcomes), dtype=object)
-    extra_u = np.empty(len(outcomes), dtype=object)
-    message_u = np.empty(len(outcomes), dtype=object)
-    severity_u = np.empty(len(outcomes), dtype=object)
-    for index, outcome in enumerate(outcomes):
+    values_u = np.full(count, None, dtype=object)
+    extra_u = np.full(count, None, dtype=object)
+    message_u = np.full(count, None, dtype=object)
+    error_u = np.zeros(count, dtype=bool)
+    warning_u = np.zeros(count, dtype=bool)
+    done = missing_u.copy()
+    if batch is not None and count:
+        values, extra, handled = batch(uniques)
+        handled &= ~missing_u
+        values_u[handled] = values[handled]
+        extra_u[handled] = extra
+        done |= handled
+    for index in np.flatnonzero(~done).tolist():
+        outcome = parse(uniques[index])
         values_u[index] = outcome.value
         extra_u[index] = outcome.extra
-        message_u[index] = outcome.message
-        severity_u[index] = outcome.severity if outcome.message is not None else None
-    raw_u = np.asarray(uniques, dtype=object)
+        if outcome.message is not None:
+            message_u[index] = outcome.message
+            error_u[index] = outcome.severity == "error"
+            warning_u[index] = outcome.severity != "error"
     return _Column(
-        values_u[codes],
-        extra_u[codes],
-        missing_u[codes],
-        message_u[codes],
-        severity_u[codes],
-        raw_u[codes],
+        np.asarray(codes, dtype=np.int64),
+        np.asarray(uniques, dtype=object),
+        values_u,
+        extra_u,
+        missing_u,
+        message_u,
+        error_u,
+        warning_u,
     )
 
 
-def _floats_fast(values: np.ndarray, missing: np.ndarray, bad: np.ndarray) -> np.ndarray:
-    usable = ~(missing | bad)
-    out = np.full(len(values), np.nan, dtype=np.float64)
-    if usable.any():
-        out[usable] = values[usable].astype(np.float64)
-    return out
+def _batch_reader(spec: FieldSpec, unit: str | None) -> _Batch | None:
+    return _plain_number_batch(spec, unit) or _text_batch(spec)
 
 
 def validate_table(
@@ -441,24 +535,31 @@ def validate_table(
             progress(done / max(len(header_map.bindings), 1))
         spec = FIELDS_BY_NAME[binding.field]
         parsed_column = _parse_column(
-            raw.columns[binding.index], _outcome_parser(spec, binding.unit)
+            raw.columns[binding.index],
+            _outcome_parser(spec, binding.unit),
+            _batch_reader(spec, binding.unit),
         )
         parsed[binding.field] = parsed_column
-        flagged = np.nonzero(parsed_column.message.astype(bool) & ~reader_bad)[0]
-        for position in flagged.tolist():
-            severity = parsed_column.severity[position]
+        flagged_u = parsed_column.error_u | parsed_column.warning_u
+        flagged = (
+            np.flatnonzero(parsed_column.rows(flagged_u) & ~reader_bad) if flagged_u.any() else ()
+        )
+        for position in [int(p) for p in flagged]:
+            code = int(parsed_column.codes[position])
+            severity = "error" if parsed_column.error_u[code] else "warning"
             problems.append(
                 Problem(
                     raw.path,
                     int(lines[position]),
                     binding.field,
-                    _clip(str(parsed_column.raw[position])),
-                    str(parsed_column.message[position])
+                    _clip(str(parsed_column.raw_u[code])),
+                    str(parsed_column.message_u[code])
                     + ("; row not loaded" if severity == "error" else ""),
                     "error" if severity == "error" else "warning",
                 )
             )
-        dropped |= parsed_column.severity == "error"
+        if parsed_column.error_u.any():
+            dropped |= parsed_column.error
 
     data: dict[str, object] = {}
     column: _Column | None
@@ -476,23 +577,23 @@ def validate_table(
             if spec.kind == "load":
                 data["series_calibrated"] = np.zeros(count, dtype=bool)
             continue
-        bad = column.severity == "error"
+        unusable_u = column.missing_u | column.error_u
         if spec.kind in ("quantity", "load"):
-            data[spec.column] = _floats_fast(column.values, column.missing, bad)
+            data[spec.column] = column.floats(column.values_u, unusable_u)
             if spec.kind == "load":
-                data["series_calibrated"] = np.array(
-                    [value is True for value in column.extra], dtype=bool
+                data["series_calibrated"] = column.rows(
+                    np.array([value is True for value in column.extra_u], dtype=bool)
                 )
         else:
-            texts = np.where(column.missing | bad, "", column.values).astype(object)
-            data[spec.column] = texts
+            texts_u = np.where(unusable_u, "", column.values_u).astype(object)
+            data[spec.column] = column.rows(texts_u)
 
     # A temperature-range column fills limits that have no column or no value.
     range_column = parsed.get(TEMP_RANGE_FIELD)
     if range_column is not None:
-        usable = ~(range_column.missing | (range_column.severity == "error"))
-        low = _floats_fast(range_column.values, ~usable, np.zeros(count, bool))
-        high = _floats_fast(range_column.extra, ~usable, np.zeros(count, bool))
+        unusable_u = range_column.missing_u | range_column.error_u
+        low = range_column.floats(range_column.values_u, unusable_u)
+        high = range_column.floats(range_column.extra_u, unusable_u)
         for column_name, filler in (("temp_min_c", low), ("temp_max_c", high)):
             current = np.asarray(data[column_name], dtype=np.float64)
             data[column_name] = np.where(np.isnan(current), filler, current)
@@ -507,7 +608,7 @@ def validate_table(
             continue
         current = np.asarray(data[other_column], dtype=np.float64)
         for position in np.nonzero(np.isnan(current) & ~column.missing)[0].tolist():
-            ranged = _range_outcome(str(column.raw[position]))
+            ranged = _range_outcome(str(column.raw_u[column.codes[position]]))
             if ranged.message is None:
                 current[position] = float(ranged.value if side == 0 else ranged.extra)  # type: ignore[arg-type]
         data[other_column] = current
@@ -528,11 +629,11 @@ def validate_table(
             absent = np.asarray(data[spec.column], dtype=object) == ""
         column = parsed.get(spec.name)
         if column is not None:
-            absent &= column.severity != "error"  # already reported as unreadable
+            absent &= ~column.error  # already reported as unreadable
         if spec.name == "stability":
             absent &= ~tuning_fork  # DESIGN §4: a tuning fork's drift comes from beta
         if spec.name in ("temp_min", "temp_max") and range_column is not None:
-            absent &= range_column.severity != "error"  # the range's own error says it
+            absent &= ~range_column.error  # the range's own error says it
         for position in np.nonzero(absent & ~reader_bad)[0].tolist():
             problems.append(
                 Problem(
@@ -550,7 +651,11 @@ def validate_table(
     outside = ((frequency < _FREQUENCY_FLOOR_HZ) | (frequency > _FREQUENCY_CEILING_HZ)) & ~dropped
     frequency_column = parsed.get("frequency")
     for position in np.nonzero(outside)[0].tolist():
-        raw_text = "" if frequency_column is None else _clip(str(frequency_column.raw[position]))
+        raw_text = (
+            ""
+            if frequency_column is None
+            else _clip(str(frequency_column.raw_u[frequency_column.codes[position]]))
+        )
         problems.append(
             Problem(
                 raw.path,

@@ -230,12 +230,34 @@ def test_each_distinct_text_is_parsed_once(write: Write, monkeypatch: pytest.Mon
         calls.append((text, dimension))
         return real(text, dimension, **kwargs)  # type: ignore[arg-type]
 
+    batches: list[tuple[list[str], str]] = []
+    real_batch = validate_module.parse_plain_numbers
+
+    def counting_batch(texts: list[str], dimension: str, **kwargs: object) -> object:
+        batches.append((list(texts), dimension))
+        return real_batch(texts, dimension, **kwargs)  # type: ignore[arg-type]
+
     monkeypatch.setattr(validate_module, "parse_quantity", counting)
+    monkeypatch.setattr(validate_module, "parse_plain_numbers", counting_batch)
+    # Cells with a unit go through parse_quantity, once per distinct text.
+    rows = [
+        GOOD_ROW.replace("ZX-16A", f"ZX-{i}").replace(",80,", f",{60 + 20 * (i % 2)} ohm,")
+        for i in range(500)
+    ]
+    result = _load(write, *rows)
+    assert len(result.parts) == 500
+    esr_calls = [text for text, dimension in calls if dimension == "resistance"]
+    assert sorted(esr_calls) == ["60 ohm", "80 ohm"]  # 500 cells, two distinct texts
+    # Plain numbers are read in one batch of the distinct texts per column.
+    calls.clear()
+    batches.clear()
     rows = [
         GOOD_ROW.replace("ZX-16A", f"ZX-{i}").replace(",80,", f",{60 + 20 * (i % 2)},")
         for i in range(500)
     ]
     result = _load(write, *rows)
     assert len(result.parts) == 500
-    esr_calls = [text for text, dimension in calls if dimension == "resistance"]
-    assert sorted(esr_calls) == ["60", "80"]  # 500 cells, two distinct texts
+    assert not [text for text, dimension in calls if dimension == "resistance"]
+    esr_batches = [texts for texts, dimension in batches if dimension == "resistance"]
+    assert [sorted(texts) for texts in esr_batches] == [["60", "80"]]
+    assert sorted(result.parts["esr_ohm"].unique()) == [60.0, 80.0]
