@@ -2,7 +2,8 @@
 
 Pure functions over the brief mapping (the YAML structure of DESIGN §6): no Textual here,
 so the round trip is easy to test. The brief pane shows one Input per leaf; lists are
-edited as comma-separated text.
+edited as comma-separated text. A list of lists (the rows of a max_esr grid with a C0 axis)
+has no faithful one-line form, so it is shown read-only and kept exactly as read.
 """
 
 from __future__ import annotations
@@ -32,16 +33,37 @@ KNOWN: dict[tuple[str, ...], tuple[str | None, str]] = {
     ("board", "fixed_caps"): ("capacitance", "analyse these two caps instead of choosing"),
     ("limits", "min_margin"): (None, "least negative-resistance margin (common practice: 5)"),
     ("limits", "packages"): (None, "allowed packages, e.g. 3225, 2520"),
-    ("limits", "max_height_mm"): (None, "tallest part allowed [mm]"),
+    ("limits", "max_height"): ("length", "tallest part allowed, e.g. 0.9 mm"),
 }
 """Dimension and help per known key path; unknown keys are still editable as text."""
+
+OPTIONAL: tuple[tuple[str, ...], ...] = (("limits", "max_height"),)
+"""Optional leaves offered as an empty field when the brief leaves them out, so they can be
+set on screen (an empty field stays out of the brief)."""
+
+READ_ONLY_NOTE = "table of rows: edit in the YAML file (ctrl+o reopens it)"
 
 
 def flatten_brief(data: Mapping[str, object]) -> list[tuple[BriefField, str]]:
     """Every leaf of the brief mapping as (field, text), in the mapping's order."""
     out: list[tuple[BriefField, str]] = []
     _walk(data, (), out)
+    present = {f.path for f, _ in out}
+    for path in OPTIONAL:
+        if path not in present and _parent_is_mapping(data, path):
+            dimension, meaning = _describe(path)
+            out.append((BriefField(path, ".".join(path), dimension, meaning), ""))
     return out
+
+
+def _parent_is_mapping(data: Mapping[str, object], path: tuple[str, ...]) -> bool:
+    """True when every section above `path` is absent or a mapping (nothing to overwrite)."""
+    node: object = data
+    for key in path[:-1]:
+        if not isinstance(node, Mapping):
+            return False
+        node = node.get(key, {})
+    return isinstance(node, Mapping) and path[-1] not in node
 
 
 def _walk(
@@ -54,6 +76,15 @@ def _walk(
             continue
         dimension, meaning = _describe(path)
         is_list = isinstance(value, list | tuple)
+        if is_list and any(isinstance(v, list | tuple | Mapping) for v in value):  # type: ignore[union-attr]
+            text = "; ".join(_nested_text(v) for v in value)  # type: ignore[union-attr]
+            out.append(
+                (
+                    BriefField(path, ".".join(path), None, meaning, True, read_only=True),
+                    text,
+                )
+            )
+            continue
         text = (
             ", ".join(_text(v) for v in value) if isinstance(value, list | tuple) else _text(value)
         )
@@ -66,9 +97,24 @@ def _describe(path: tuple[str, ...]) -> tuple[str | None, str]:
     # gm settings and ESR tables: named leaves under a known key share its dimension.
     if len(path) >= 3 and path[:2] == ("amplifier", "gm"):
         return "transconductance", f"gm of drive setting '{path[2]}'"
+    if path == ("amplifier", "max_esr", "load_capacitance"):
+        return "capacitance", "load capacitances of the ESR table's rows"
+    if path == ("amplifier", "max_esr", "c0"):
+        return "capacitance", "crystal C0 of the ESR table's columns"
+    if path == ("amplifier", "max_esr", "esr"):
+        return "resistance", "largest ESR per row (and per C0 column)"
     if len(path) >= 3 and path[:2] == ("amplifier", "max_esr"):
         return "resistance", f"largest ESR the chip tolerates at {path[2]}"
     return None, ""
+
+
+def _nested_text(value: object) -> str:
+    """One row of a nested table as "[a, b, —]" (an empty cell as —), for reading only."""
+    if isinstance(value, list | tuple):
+        return "[" + ", ".join(_nested_text(v) for v in value) + "]"
+    if isinstance(value, Mapping):
+        return "{" + ", ".join(f"{k}: {_nested_text(v)}" for k, v in value.items()) + "}"
+    return "—" if value is None else _text(value)
 
 
 def _text(value: object) -> str:

@@ -11,7 +11,13 @@ from textual.message import Message
 from textual.widget import Widget
 from textual.widgets import Input, Label, Select, Static
 
-from picker.tui.brief_fields import field_for_error, field_value, flatten_brief, with_value
+from picker.tui.brief_fields import (
+    READ_ONLY_NOTE,
+    field_for_error,
+    field_value,
+    flatten_brief,
+    with_value,
+)
 from picker.tui.model import BriefField, Core, Preset
 
 
@@ -39,6 +45,7 @@ class BriefPane(VerticalScroll, can_focus=True):
     BriefPane .brief-row Input { width: 1fr; }
     BriefPane .brief-error { color: $error; height: auto; padding-left: 24; }
     BriefPane .brief-error.-empty { display: none; }
+    BriefPane .brief-note { color: $text-muted; height: auto; padding-left: 24; }
     BriefPane #brief-status { height: auto; color: $text-muted; }
     BriefPane #brief-status.-bad { color: $error; }
     BriefPane #brief-preset { width: 1fr; }
@@ -108,10 +115,13 @@ class BriefPane(VerticalScroll, can_focus=True):
                         select_on_focus=False,
                         tooltip=f"{brief_field.meaning}{unit_hint}",
                         placeholder=brief_field.meaning,
+                        disabled=brief_field.read_only,
                     ),
                     classes="brief-row",
                 )
             )
+            if brief_field.read_only:
+                rows.append(Static(f"ⓘ {READ_ONLY_NOTE}", classes="brief-note", markup=False))
             rows.append(Static("", classes="brief-error -empty", id=f"{_input_id(index)}-error"))
         await container.mount_all(rows)
         self._presets = self._core.presets()
@@ -152,6 +162,8 @@ class BriefPane(VerticalScroll, can_focus=True):
             return
         index = int(event.input.id.removeprefix("brief-field-"))
         brief_field = self._fields[index]
+        if brief_field.read_only:
+            return  # kept exactly as read; a one-line edit would garble the table
         value = field_value(brief_field, event.value)
         if brief_field.dimension and value is not None:
             texts = value if isinstance(value, list) else [value]

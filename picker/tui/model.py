@@ -200,6 +200,8 @@ class BriefField:
     dimension : unit dimension for as-you-type parsing (catalog.units), or None for text
     meaning : one line of help
     is_list : the value is a list, edited as comma-separated text ("-40 degC, 85 degC")
+    read_only : shown but not editable here (a nested table such as a max_esr grid's rows,
+        which one line of text cannot hold faithfully); edit it in the YAML file
     """
 
     path: tuple[str, ...]
@@ -207,6 +209,7 @@ class BriefField:
     dimension: str | None = None
     meaning: str = ""
     is_list: bool = False
+    read_only: bool = False
 
 
 @dataclass(frozen=True)
