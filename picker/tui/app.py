@@ -80,6 +80,7 @@ class PickerApp(App[int]):
         Binding("m", "copy_bom", "Copy BOM line", id="picker.copy_bom", show=False),
         Binding("ctrl+s", "save_brief", "Save brief", id="picker.save_brief", show=False),
         Binding("ctrl+o", "open_brief", "Open brief", id="picker.open_brief", show=False),
+        Binding("ctrl+r", "reload", "Reload catalog", id="picker.reload", show=False),
         Binding("escape", "leave_field", "Leave field", id="picker.leave_field", show=False),
         Binding("ctrl+q", "quit_app", "Quit", id="picker.quit", priority=True),
     ]
@@ -192,6 +193,38 @@ class PickerApp(App[int]):
         if brief is not None:
             shortlist = self.core.rank(loaded.parts, brief)
         self.call_from_thread(self._loaded, loaded, data, brief, brief_error, shortlist)
+
+    def action_reload(self) -> None:
+        """Read the catalog files again; the brief on screen (edits included) is kept."""
+        if self.loaded is None:
+            return  # the first load is still running (or failed and says so)
+        self._update_status("reloading the catalog…")
+        self.reload_catalog(self.brief)
+
+    @work(thread=True, exclusive=True, group="load", exit_on_error=False)
+    def reload_catalog(self, brief: object) -> None:
+        try:
+            loaded = self.core.load(self.catalog_paths, self.mapping, None)
+        except (ValueError, OSError) as error:
+            self.call_from_thread(self._load_failed, str(error))
+            self.call_from_thread(self._update_status)
+            return
+        shortlist = None if brief is None else self.core.rank(loaded.parts, brief)
+        if not get_current_worker().is_cancelled:
+            self.call_from_thread(self._reloaded, loaded, shortlist)
+
+    def _reloaded(self, loaded: Loaded, shortlist: Shortlist | None) -> None:
+        self.loaded = loaded
+        problems = f"; {len(loaded.problems)} problem(s)" if loaded.problems else ""
+        self.notify(
+            f"✔ Reloaded {len(loaded.parts):,} parts from {len(loaded.files)} file(s){problems}",
+            title="Catalog",
+            severity="warning" if loaded.problems else "information",
+        )
+        if shortlist is not None:
+            self._show_ranking(shortlist)
+        else:
+            self._update_status()
 
     def _read_brief(self, path: Path) -> tuple[dict[str, object], object, str]:
         try:
@@ -699,6 +732,7 @@ class PickerApp(App[int]):
             ("Copy BOM line", "part, caps and note to the clipboard", "copy_bom"),
             ("Save brief", "write the brief as YAML", "save_brief"),
             ("Open brief", "read another brief", "open_brief"),
+            ("Reload catalog", "read the catalog files again, keep the brief", "reload"),
             ("Show catalog problems", "rows that did not load, and warnings", "problems"),
             ("Quit", "leave picker (status 0)", "quit_app"),
         ]
@@ -719,6 +753,7 @@ class PickerApp(App[int]):
             ("m", "copy a bill-of-materials line"),
             ("ctrl+s", "save the brief (YAML)"),
             ("ctrl+o", "open another brief"),
+            ("ctrl+r", "reload the catalog files (the last good one stays on failure)"),
             ("ctrl+p", "command palette: every action and the interface presets"),
             ("escape", "leave a text field"),
             ("ctrl+q", "quit"),
