@@ -11,7 +11,12 @@ Re(Zc) = Re((gm + Y1 + Y2) / (Y1·Y2 + Y3·(Y1 + Y2 + gm))) with Yi = Gi + jωCi
 Degrauwe & Bitz, IEEE JSSC 23(3), 1988), the margin |Rneg|/R1, gm_crit, pulling
 C1/2·(1/(C0+CL_board) − 1/(C0+CL_spec)), trim sensitivity, the worst-case frequency budget
 (tolerance + temperature + log-law aging + |pulling| + |S|·ΔCL), drive level
-R1·(π·f·Vpp·(C0+CL))²/2, the hard checks and a score, then order the parts. They are
+R1·(π·f·Vpp·(C0+CL))²/2, the hard checks and a score, then order the parts.
+
+Same filter as picker: only the parts at the brief's nominal frequency (within 1e-9
+relative, :data:`SAME_FREQUENCY`) get the circuit math; every other part is ruled out by
+frequency with only its catalog checks (temperature range, package) and a zero score, and
+still takes its place in the order. They are
 benchmarks of the work, not second implementations to trust: missing C0/C1 get one fixed
 typical value instead of picker's package table.
 """
@@ -37,6 +42,8 @@ AGING_B_PER_DAY = 0.1
 #: Tuning-fork parabola, worst case of the typical spread (from memory).
 BETA_WORST_PPM_PER_C2 = -0.040
 TURNOVER_SPREAD_C = 5.0
+#: Nominal frequencies within this fraction of the brief's are the brief's (as picker).
+SAME_FREQUENCY = 1e-9
 
 
 @dataclass(frozen=True)
@@ -123,7 +130,7 @@ def _e12_nearest(value_f: float) -> float:
     return E12[step] * 1e-12 * 10.0**decade
 
 
-def rank_loop(rows: list[dict[str, Any]], circuit: Circuit) -> list[tuple[Any, ...]]:
+def rank_loop(rows: list[dict[Any, Any]], circuit: Circuit) -> list[tuple[Any, ...]]:
     """Per-part Python loop: figures, checks and score for each row, then sorted.
 
     ``rows`` are dicts with the part-table column names (``DataFrame.to_dict("records")``),
@@ -131,8 +138,18 @@ def rank_loop(rows: list[dict[str, Any]], circuit: Circuit) -> list[tuple[Any, .
     """
     c = circuit
     out: list[tuple[Any, ...]] = []
+    nan = math.nan
     for row in rows:
         f = row["freq_hz"]
+        if not abs(f - c.frequency_hz) <= SAME_FREQUENCY * c.frequency_hz:
+            # The frequency filter first, as picker: no circuit figures at another frequency.
+            fails = 1
+            if row["temp_min_c"] > c.temp_low_c or row["temp_max_c"] < c.temp_high_c:
+                fails |= 2
+            if c.packages and str(row["package"]) not in c.packages:
+                fails |= 4
+            out.append((True, -0.0, row["mpn"], nan, nan, nan, nan, nan, fails))
+            continue
         r1 = row["esr_ohm"]
         c0 = row.get("c0_f")
         c0 = TYPICAL_C0_F if c0 is None or c0 != c0 else c0
@@ -185,8 +202,6 @@ def rank_loop(rows: list[dict[str, Any]], circuit: Circuit) -> list[tuple[Any, .
         rating = row.get("drive_level_w")
         rating = TYPICAL_DRIVE_W if rating is None or rating != rating else rating
         fails = 0
-        if abs(f - c.frequency_hz) > 1e-6 * c.frequency_hz:
-            fails |= 1
         if row["temp_min_c"] > c.temp_low_c or row["temp_max_c"] < c.temp_high_c:
             fails |= 2
         if c.packages and str(row["package"]) not in c.packages:
@@ -248,6 +263,7 @@ WITH p AS (
          THEN 12e-12 ELSE load_capacitance_f END AS target,
     2 * pi() * freq_hz AS w
   FROM parts
+  WHERE abs(freq_hz - {c.frequency_hz}) <= {SAME_FREQUENCY * c.frequency_hz}
 ), k AS (
   SELECT *, CAST(round(12 * log10(greatest(2 * (target - {c.stray_f}) - {c.pin_f}, 1e-13)
                         / 1e-12)) AS BIGINT) AS e_index
@@ -289,8 +305,7 @@ WITH p AS (
   FROM fig
 ), chk AS (
   SELECT *,
-    (CASE WHEN abs(freq_hz - {c.frequency_hz}) > {1e-6 * c.frequency_hz} THEN 1 ELSE 0 END)
-    | (CASE WHEN temp_min_c > {c.temp_low_c} OR temp_max_c < {c.temp_high_c} THEN 2 ELSE 0 END)
+    (CASE WHEN temp_min_c > {c.temp_low_c} OR temp_max_c < {c.temp_high_c} THEN 2 ELSE 0 END)
     | (CASE WHEN {package_check} THEN 4 ELSE 0 END)
     | (CASE WHEN margin < {c.min_margin} THEN 8 ELSE 0 END)
     | (CASE WHEN drive > coalesce(drive_level_w, {TYPICAL_DRIVE_W}) THEN 16 ELSE 0 END)
@@ -299,6 +314,13 @@ WITH p AS (
   FROM bud
 )
 SELECT mpn, margin, gm_crit, pulling, total, drive, fails, score FROM chk
+UNION ALL
+SELECT mpn, NULL, NULL, NULL, NULL, NULL,
+    1 | (CASE WHEN temp_min_c > {c.temp_low_c} OR temp_max_c < {c.temp_high_c} THEN 2 ELSE 0 END)
+      | (CASE WHEN {package_check} THEN 4 ELSE 0 END),
+    0.0
+FROM parts
+WHERE NOT (abs(freq_hz - {c.frequency_hz}) <= {SAME_FREQUENCY * c.frequency_hz})
 ORDER BY fails <> 0, score DESC, mpn
 """
 

@@ -116,17 +116,24 @@ def probe_load(args: argparse.Namespace) -> Figures:
 
 
 def probe_rank(args: argparse.Namespace) -> Figures:
+    """Re-rank after a gm change: staged (a RankSession kept across the edits, as an
+    interactive caller holds one) and one-shot (``rank_parts``, nothing kept); both
+    include the order of every part."""
     from picker.rank import rank_parts
+    from picker.session import RankSession
 
     parts = _load(args).parts
     brief = _brief()
     gm = float(brief.amplifier.gm_s)
-    rank_parts(parts, brief)  # first call: imports and allocator warm-up, not timed
-    seconds = best_of(
-        lambda attempt: rank_parts(parts, brief_with_gm(brief, gm * (1.0 + 0.01 * (attempt + 1)))),
-        args.repeats,
-    )
-    return {"rank_s": seconds, "rows": len(parts)}
+    session = RankSession(parts)
+    _ = session.rank(brief).order  # first call: every stage built, imports warm; not timed
+
+    def edited(attempt: int) -> Any:
+        return brief_with_gm(brief, gm * (1.0 + 0.01 * (attempt + 1)))
+
+    staged = best_of(lambda attempt: session.rank(edited(attempt)).order, args.repeats)
+    one_shot = best_of(lambda attempt: rank_parts(parts, edited(attempt)).order, args.repeats)
+    return {"rank_s": staged, "rank_one_shot_s": one_shot, "rows": len(parts)}
 
 
 def probe_loop(args: argparse.Namespace) -> Figures:
@@ -183,17 +190,26 @@ def probe_crosscheck(args: argparse.Namespace) -> Figures:
 
 
 def probe_alternates(args: argparse.Namespace) -> Figures:
+    """Alternates for one part with the brief: fresh (nothing kept) and with the session
+    the shortlist was ranked in (as an interactive caller holds one)."""
     from picker.alternates import find_alternates
+    from picker.session import RankSession
 
     parts = _load(args).parts
     brief = _brief()
     mpns = parts["mpn"].to_numpy()
     find_alternates(parts, str(mpns[0]), brief)  # warm-up
-    seconds = best_of(
-        lambda attempt: find_alternates(parts, str(mpns[(attempt + 1) * 7919 % len(mpns)]), brief),
-        args.repeats,
+
+    def reference(attempt: int) -> str:
+        return str(mpns[(attempt + 1) * 7919 % len(mpns)])
+
+    seconds = best_of(lambda a: find_alternates(parts, reference(a), brief), args.repeats)
+    session = RankSession(parts)
+    session.rank(brief)
+    kept = best_of(
+        lambda a: find_alternates(parts, reference(a), brief, session=session), args.repeats
     )
-    return {"alternates_s": seconds, "rows": len(parts)}
+    return {"alternates_s": seconds, "alternates_session_s": kept, "rows": len(parts)}
 
 
 def probe_fuzzy(args: argparse.Namespace) -> Figures:

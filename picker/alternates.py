@@ -36,7 +36,8 @@ import pandas as pd
 
 from picker.brief import Board, Brief
 from picker.physics import capacitors, crystal
-from picker.rank import Ranking, order_rows, rank_parts, reasons_for_row
+from picker.rank import STATUSES, Ranking, order_rows, reasons_for_row
+from picker.session import RankSession
 
 Fit = Literal["drop_in", "drop_in_new_caps", "review", "incompatible"]
 FITS: tuple[Fit, ...] = ("drop_in", "drop_in_new_caps", "review", "incompatible")
@@ -161,7 +162,11 @@ class AlternatesResult:
 
 
 def find_alternates(
-    parts: pd.DataFrame, reference_mpn: str, brief: Brief | None
+    parts: pd.DataFrame,
+    reference_mpn: str,
+    brief: Brief | None,
+    *,
+    session: RankSession | None = None,
 ) -> AlternatesResult:
     """Classify every other part of ``parts`` as an alternate for ``reference_mpn``.
 
@@ -173,6 +178,8 @@ def find_alternates(
     brief : the circuit; with it every alternate's circuit figures are computed (as for
         ``analyze``) and its status in that circuit decides; without it the data sheets are
         compared.
+    session : the caller's :class:`picker.session.RankSession` of ``parts`` (the one its
+        shortlist came from), so the brief's ranking is reused rather than recomputed.
 
     Raises
     ------
@@ -183,7 +190,13 @@ def find_alternates(
     if hits.size == 0:
         raise KeyError(reference_mpn)
     ref_pos = int(hits[0])
-    ranking = rank_parts(parts, brief) if brief is not None else None
+    if session is not None and session.parts is not parts:
+        raise ValueError("find_alternates: the session ranks another part table")
+    ranking = None
+    if brief is not None:
+        # Circuit figures only for the parts at the brief's frequency (the session's first
+        # stage); every other part is incompatible or ruled out on catalog columns alone.
+        ranking = (session or RankSession(parts)).rank(brief)
     codes, worse = classify(parts, ref_pos, ranking)
     codes[ref_pos] = -1
     # Closest first: class, then how many figures are worse, then (with a brief) the score,
@@ -290,9 +303,12 @@ def classify(
         # incompatible; marginal where the reference is fit needs a review. (Failures the
         # reference shares are the circuit's, not the alternate's; the header says so.)
         fail = ranking.analysis["fail_mask"].to_numpy(dtype=np.int64)
-        status = ranking.analysis["status"].astype(str).to_numpy()
+        # Status codes index rank.STATUSES (fit, marginal, ruled_out): comparing codes, not
+        # a million status strings.
+        status = ranking.analysis["status"].cat.codes.to_numpy()
+        fit_code, marginal_code = STATUSES.index("fit"), STATUSES.index("marginal")
         incompatible |= (fail & ~fail[ref_pos]) != 0
-        review |= (status == "marginal") & (status[ref_pos] == "fit")
+        review |= (status == marginal_code) & (status[ref_pos] == fit_code)
     codes = np.where(incompatible, 3, np.where(review, 2, np.where(new_caps, 1, 0))).astype(
         np.int64
     )

@@ -78,14 +78,22 @@ class Ranking:
     ----------
     analysis : the analysis frame (index = the part table's index), plus ``status``,
         ``score``, ``score_<component>`` columns, ``fail_mask`` and ``marginal_mask``.
-    order : positions into ``analysis``, best first.
     brief : the brief ranked against.
+    counts : parts per status.
+    ordering : computes :attr:`order` on first use (callers that read statuses and scores
+        only, such as the alternates, never pay for sorting a million ruled-out parts).
     """
 
     analysis: pd.DataFrame
-    order: np.ndarray
     brief: Brief
     counts: dict[str, int] = field(default_factory=dict)
+    ordering: Callable[[], np.ndarray] = field(default=lambda: np.zeros(0, dtype=np.int64),
+                                               repr=False, compare=False)  # fmt: skip
+
+    @cached_property
+    def order(self) -> np.ndarray:
+        """Positions into ``analysis``, best first."""
+        return self.ordering()
 
     @cached_property
     def table(self) -> pd.DataFrame:
@@ -145,8 +153,14 @@ def rank_analysis(analysis: pd.DataFrame, brief: Brief) -> Ranking:
     table = ranked_frame(analysis, status_code, score, fail, near, components)
     # Ruled-out parts: those failing fewer rules first (closest to usable), then by score.
     failures = _popcount(fail)
-    order = order_rows(status_code, score - failures, analysis["mpn"], names_below_status=2)
-    return Ranking(analysis=table, order=order, brief=brief, counts=status_counts(status_code))
+    mpns = analysis["mpn"]
+
+    def ordering() -> np.ndarray:
+        return order_rows(status_code, score - failures, mpns, names_below_status=2)
+
+    return Ranking(
+        analysis=table, brief=brief, counts=status_counts(status_code), ordering=ordering
+    )
 
 
 def status_codes(fail: np.ndarray, near: np.ndarray) -> np.ndarray:

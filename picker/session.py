@@ -105,9 +105,15 @@ class _Catalog:
     components: dict[str, np.ndarray]  # score components, circuit ones 0
     score: np.ndarray  # the score of every part with the circuit components 0
     cheapest_price: float
-    off_order: np.ndarray  # positions at other frequencies, by (order key, position)
-    off_key: np.ndarray  # their order keys, ascending
-    off_pair: np.ndarray  # group of equal keys × n + position, strictly ascending
+
+
+@dataclass(frozen=True)
+class _OffOrder:
+    """The parts at other frequencies in ranking order (built when an order is asked for)."""
+
+    positions: np.ndarray  # by (order key, position)
+    key: np.ndarray  # their order keys, ascending
+    pair: np.ndarray  # group of equal keys × n + position, strictly ascending
 
 
 class RankSession:
@@ -155,7 +161,15 @@ class RankSession:
             brief.weights,
         )
         catalog = self._stage("catalog", catalog_key, lambda: _catalog(parts, selection, brief))
-        return _ranking(parts, selection, board, amplifier, catalog, brief)
+
+        def off_order() -> _OffOrder:
+            return self._stage("off_order", catalog_key, lambda: _off_order(selection, catalog))
+
+        return self._stage(
+            "ranking",
+            brief,
+            lambda: _ranking(parts, selection, board, amplifier, catalog, off_order, brief),
+        )
 
 
 def _select(parts: pd.DataFrame, brief: Brief) -> _Selection:
@@ -193,24 +207,20 @@ def _catalog(parts: pd.DataFrame, selection: _Selection, brief: Brief) -> _Catal
     components.update(catalog_score_components(table, cheapest_price=low))
     components = {name: components[name] for name in SCORE_COMPONENTS}
     score = weighted_score(components, brief)
+    return _Catalog(fail=fail, components=components, score=score, cheapest_price=low)
+
+
+def _off_order(selection: _Selection, catalog: _Catalog) -> _OffOrder:
+    n = selection.f_nom.size
     off = np.ones(n, dtype=bool)
     off[selection.rows] = False
     off_rows = np.flatnonzero(off)
-    key = _order_key(
-        np.full(off_rows.size, _RULED_OUT), score[off_rows] - _popcount(fail[off_rows])
-    )
+    failures = _popcount(catalog.fail[off_rows])
+    key = _order_key(np.full(off_rows.size, _RULED_OUT), catalog.score[off_rows] - failures)
     by_key = np.argsort(key, kind="stable")
-    off_order, off_key = off_rows[by_key], key[by_key]
-    group = np.cumsum(np.concatenate(([0], (np.diff(off_key) != 0).astype(np.int64))))
-    return _Catalog(
-        fail=fail,
-        components=components,
-        score=score,
-        cheapest_price=low,
-        off_order=off_order,
-        off_key=off_key,
-        off_pair=group * max(n, 1) + off_order,
-    )
+    positions, key = off_rows[by_key], key[by_key]
+    group = np.cumsum(np.concatenate(([0], (np.diff(key) != 0).astype(np.int64))))
+    return _OffOrder(positions=positions, key=key, pair=group * max(n, 1) + positions)
 
 
 def _order_key(status: np.ndarray, score: np.ndarray) -> np.ndarray:
@@ -230,6 +240,7 @@ def _ranking(
     board: _Board,
     amplifier: dict[str, Any],
     catalog: _Catalog,
+    off_order: Callable[[], _OffOrder],
     brief: Brief,
 ) -> Ranking:
     n, rows = len(parts), selection.rows
@@ -260,33 +271,38 @@ def _ranking(
         spread = spread_columns(amplifier, parts, rows, brief, selection.f_nom)
         columns = analysis_columns(board.head, spread, board.tail)
     table = ranked_frame(columns, status, score, fail, near, components, index=parts.index)
-    order = _order(selection, catalog, frame["mpn"], sub_status, sub_score - _popcount(sub_fail))
-    return Ranking(analysis=table, order=order, brief=brief, counts=status_counts(status))
+    mpns, key_score = frame["mpn"], sub_score - _popcount(sub_fail)
+
+    def ordering() -> np.ndarray:
+        return _order(selection, off_order(), mpns, sub_status, key_score)
+
+    return Ranking(analysis=table, brief=brief, counts=status_counts(status), ordering=ordering)
 
 
 def _order(
     selection: _Selection,
-    catalog: _Catalog,
+    off: _OffOrder,
     mpns: pd.Series,
     status: np.ndarray,
     key_score: np.ndarray,
 ) -> np.ndarray:
     """rank.order_rows over every part, sorting only the selected rows: the parts at other
-    frequencies were put in order once by the catalog stage and the selected ruled-out rows
-    are merged into that order (ties: catalog position, as a stable sort gives)."""
+    frequencies are put in order once per catalog stage (:func:`_off_order`) and the
+    selected ruled-out rows are merged into that order (ties: catalog position, as a
+    stable sort gives)."""
     rows = selection.rows
     local = order_rows(status, key_score, mpns, names_below_status=_RULED_OUT)
     listed = local[status[local] < _RULED_OUT]
     out_local = local[status[local] >= _RULED_OUT]  # by (key, position) already: stable sort
     out_rows = rows[out_local]
     out_key = _order_key(status[out_local], key_score[out_local])
-    lo = np.searchsorted(catalog.off_key, out_key, side="left")
-    hi = np.searchsorted(catalog.off_key, out_key, side="right")
+    lo = np.searchsorted(off.key, out_key, side="left")
+    hi = np.searchsorted(off.key, out_key, side="right")
     where = lo.copy()
     tied = hi > lo
     if tied.any():
-        group = catalog.off_pair[lo[tied]] // max(len(selection.f_nom), 1)
-        pair = group * max(len(selection.f_nom), 1) + out_rows[tied]
-        where[tied] = np.searchsorted(catalog.off_pair, pair, side="left")
-    ruled = np.insert(catalog.off_order, where, out_rows)
+        n = max(selection.f_nom.size, 1)
+        pair = off.pair[lo[tied]] // n * n + out_rows[tied]
+        where[tied] = np.searchsorted(off.pair, pair, side="left")
+    ruled = np.insert(off.positions, where, out_rows)
     return np.concatenate((rows[listed], ruled)).astype(np.int64)
