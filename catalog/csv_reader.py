@@ -151,7 +151,12 @@ def split_csv_text(
             bad.add(len(records) - 1)
             continue
         try:
-            cells = next(csv.reader([record_text], delimiter=delimiter, strict=False))
+            if '"' in record_text or "\r" in record_text or "\n" in record_text:
+                cells = next(csv.reader([record_text], delimiter=delimiter, strict=False))
+            else:
+                # No quote and no line break: csv.reader would split at each delimiter
+                # and nowhere else, which str.split does without building a reader.
+                cells = record_text.split(delimiter)
         except (csv.Error, StopIteration) as error:
             problems.append(
                 Problem(
@@ -399,12 +404,24 @@ def read_csv_table(path: str | Path, *, limits: Limits = DEFAULT_LIMITS) -> RawT
     return RawTable(
         path=shown,
         headers=headers,
-        columns=columns_from_rows(rows, width),
+        columns=_arrow_columns(columns_from_rows(rows, width)),
         lines=tuple(lines),
         problems=tuple(problems),
         header_line=starts[header_at],
         bad_rows=frozenset(bad_rows),
     )
+
+
+def _arrow_columns(columns: tuple[list[str], ...]) -> tuple[Column, ...]:
+    """Columns as Arrow strings, as the fast reader gives them (distinct texts are then
+    found by ``dictionary_encode`` at C speed); a column Arrow cannot hold stays a list."""
+    converted: list[Column] = []
+    for column in columns:
+        try:
+            converted.append(pa.array(column, type=pa.string()))
+        except (pa.ArrowException, ValueError, TypeError, UnicodeError):
+            converted.append(column)
+    return tuple(converted)
 
 
 def _delimiter_name(delimiter: str) -> str:
