@@ -22,6 +22,7 @@ def test_every_leaf_becomes_a_field_with_its_dimension() -> None:
         "amplifier.gm.high",
         "amplifier.swing",
         "limits.min_margin",
+        "limits.max_height",
     ]
     assert fields["temperature"][1] == "-40 degC, 85 degC"
     assert fields["temperature"][0].is_list
