@@ -76,8 +76,8 @@ def _walk(
             continue
         dimension, meaning = _describe(path)
         is_list = isinstance(value, list | tuple)
-        if is_list and any(isinstance(v, list | tuple | Mapping) for v in value):  # type: ignore[union-attr]
-            text = "; ".join(_nested_text(v) for v in value)  # type: ignore[union-attr]
+        if is_list and any(isinstance(v, list | tuple | Mapping) for v in value):  # type: ignore[attr-defined]
+            text = "; ".join(_nested_text(v) for v in value)  # type: ignore[attr-defined]
             out.append(
                 (
                     BriefField(path, ".".join(path), None, meaning, True, read_only=True),
